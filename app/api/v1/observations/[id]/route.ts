@@ -1,0 +1,36 @@
+import { getObservationOfObserver } from "@/db/queries/observations";
+import { requireObserver } from "@/lib/auth/session";
+import { AppError, invalidInput } from "@/lib/http/errors";
+import { withIdempotency } from "@/lib/http/idempotency";
+import { readJsonBody } from "@/lib/http/read-json";
+import { handleRoute } from "@/lib/http/respond";
+import { reviseObservation } from "@/lib/observations/submit";
+import { observationInputSchema } from "@/lib/validation/observation";
+
+type Context = { params: Promise<{ id: string }> };
+
+// Someone else's observation answers 404, exactly like a missing one, so ids
+// cannot be probed.
+const notFound = () => new AppError("not_found", "No such observation in your Logbook.");
+
+export const GET = handleRoute(async (request: Request, context: Context) => {
+  const { observer } = await requireObserver(undefined, { request });
+  const { id } = await context.params;
+  const row = await getObservationOfObserver({ observerId: observer.id, observationId: id });
+  if (!row) throw notFound();
+  return Response.json(row);
+});
+
+/** Replaces the observation's values (the whole observation is sent again). */
+export const PUT = handleRoute(async (request: Request, context: Context) => {
+  const { user, observer } = await requireObserver(undefined, { request });
+  const { id } = await context.params;
+  if (!(await getObservationOfObserver({ observerId: observer.id, observationId: id }))) throw notFound();
+  const body = await readJsonBody(request);
+  const parsed = observationInputSchema.safeParse(body);
+  if (!parsed.success) throw invalidInput(parsed.error);
+  return withIdempotency({ request, userId: user.id, scope: `PUT /api/v1/observations/${id}`, body }, async () => ({
+    status: 200,
+    body: await reviseObservation({ observerId: observer.id, observationId: id, input: parsed.data }),
+  }));
+});

@@ -1,0 +1,67 @@
+import "server-only";
+
+import { getToken } from "next-auth/jwt";
+import { cookies, headers } from "next/headers";
+import { NextRequest } from "next/server";
+
+import { getObserverByUserId } from "@/db/queries/observers";
+import { getUserById } from "@/db/queries/users";
+import { AppError } from "@/lib/http/errors";
+
+import { roleSatisfies, type Role } from "./roles";
+import { getAuthSecret } from "./secret";
+
+export type SessionUser = { id: string; name: string | null; email: string | null; role: Role };
+
+/**
+ * Who is calling. Route handlers pass their request; server components and
+ * server actions pass nothing and the request's cookies are read instead.
+ * The token only names the user: the role always comes from the database.
+ */
+export async function getSessionUser({ request }: { request?: Request } = {}): Promise<SessionUser | null> {
+  const req = request ? toNextRequest(request) : await requestFromContext();
+  const token = await getToken({ req, secret: getAuthSecret() });
+  if (!token?.sub) return null;
+  const user = await getUserById({ userId: token.sub });
+  if (!user || user.disabledAt) return null;
+  return { id: user.id, name: user.name, email: user.email, role: user.role };
+}
+
+/**
+ * The one guard. Every server action and route handler calls it first;
+ * it throws AppError("unauthenticated" | "forbidden") which route handlers
+ * turn into 401/403 and pages into a redirect or the 403 page.
+ */
+export async function requireRole(
+  roles: readonly Role[],
+  { request }: { request?: Request } = {},
+): Promise<SessionUser> {
+  const user = await getSessionUser({ request });
+  if (!user) throw new AppError("unauthenticated", "Sign in to continue.");
+  if (!roleSatisfies({ role: user.role, required: roles })) {
+    throw new AppError("forbidden", "Your account does not have access to this.");
+  }
+  return user;
+}
+
+/** For roles that keep a Logbook: the guard plus the caller's observer profile. */
+export async function requireObserver(
+  roles: readonly Role[] = ["observer", "student"],
+  { request }: { request?: Request } = {},
+) {
+  const user = await requireRole(roles, { request });
+  const observer = await getObserverByUserId({ userId: user.id });
+  if (!observer) throw new AppError("forbidden", "Your account has no observer profile.");
+  return { user, observer };
+}
+
+function toNextRequest(request: Request): NextRequest {
+  return request instanceof NextRequest ? request : new NextRequest(request);
+}
+
+async function requestFromContext(): Promise<NextRequest> {
+  const [cookieStore, headerStore] = await Promise.all([cookies(), headers()]);
+  const h = new Headers(headerStore);
+  h.set("cookie", cookieStore.toString());
+  return new NextRequest("http://localhost/", { headers: h });
+}

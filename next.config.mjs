@@ -1,0 +1,14 @@
+/** @type {import('next').NextConfig} */
+const nextConfig = {
+  reactStrictMode: true,
+  poweredByHeader: false,
+  // Packages with native or Node-only internals stay out of the server bundle.
+  serverExternalPackages: ["@libsql/client", "nodemailer", "smtp-server", "mailparser", "bcryptjs"],
+  experimental: {
+    // Enables forbidden() and app/forbidden.tsx for signed-in users without the role.
+    authInterrupts: true,
+    serverActions: { bodySizeLimit: "2mb" },
+  },
+};
+
+export default nextConfig;

@@ -1,0 +1,9 @@
+import type { DefaultSession } from "next-auth";
+
+import type { Role } from "@/lib/auth/roles";
+
+declare module "next-auth" {
+  interface Session {
+    user: DefaultSession["user"] & { id: string; role: Role };
+  }
+}

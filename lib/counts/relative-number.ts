@@ -41,7 +41,10 @@ export function computeRelativeNumber({ k, groups, spots }: SpotCount & { k: num
  * the pair is consistent. The validation schema enforces the same rule on
  * input; this copy lets imported series be screened without zod.
  */
-export function findCountInconsistency({ groups, spots }: SpotCount): "spots-without-groups" | "fewer-spots-than-groups" | null {
+export function findCountInconsistency({
+  groups,
+  spots,
+}: SpotCount): "spots-without-groups" | "fewer-spots-than-groups" | null {
   if (groups === 0 && spots > 0) return "spots-without-groups";
   if (spots < groups) return "fewer-spots-than-groups";
   return null;

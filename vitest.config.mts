@@ -1,10 +1,18 @@
+import { fileURLToPath } from "node:url";
+
 import { defineConfig } from "vitest/config";
 
+const empty = fileURLToPath(new URL("./tests/support/empty.ts", import.meta.url));
+
 // Unit tests cover lib/ (pure domain code); integration tests call route
-// handlers against a temporary SQLite file. End-to-end tests run separately
-// (scripts/test-e2e.ts) because they need a built app and Chromium.
+// handlers against a temporary SQLite file; end-to-end tests drive Debian's
+// Chromium against a built app (started by tests/e2e/global-setup.ts).
 export default defineConfig({
-  resolve: { tsconfigPaths: true },
+  resolve: {
+    tsconfigPaths: true,
+    // "server-only" throws outside Next's server bundle; tests are server code.
+    alias: { "server-only": empty },
+  },
   test: {
     projects: [
       {
@@ -20,6 +28,18 @@ export default defineConfig({
           setupFiles: ["tests/integration/setup.ts"],
           testTimeout: 30_000,
           hookTimeout: 60_000,
+          fileParallelism: false,
+        },
+      },
+      {
+        extends: true,
+        test: {
+          name: "e2e",
+          include: ["tests/e2e/**/*.test.ts"],
+          environment: "node",
+          globalSetup: ["tests/e2e/global-setup.ts"],
+          testTimeout: 120_000,
+          hookTimeout: 180_000,
           fileParallelism: false,
         },
       },

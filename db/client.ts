@@ -48,6 +48,6 @@ export function openDatabase({ url }: { url: string }): Database {
 function ensureParentFolder(url: string): void {
   const file = url.replace(/^file:(\/\/)?/, "").split("?")[0] ?? "";
   if (!file || file === ":memory:") return;
-  mkdirSync(path.dirname(path.resolve(file)), { recursive: true });
+  mkdirSync(path.dirname(path.resolve(/*turbopackIgnore: true*/ file)), { recursive: true });
 }
 

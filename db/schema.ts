@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { blob, index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 
 import { ROLES, type Role } from "../lib/auth/roles";
 
@@ -165,6 +165,11 @@ export const observations = sqliteTable(
     southGroups: integer("south_groups"),
     southSpots: integer("south_spots"),
     notes: text("notes"),
+    /** Set when the count was logged for a scheduled class session. */
+    classSessionId: text("class_session_id"),
+    /** Set for imported rows: a stable key per logbook line, so a re-import adds nothing twice. */
+    importKey: text("import_key"),
+    importBatchId: text("import_batch_id"),
     status: text("status", { enum: OBSERVATION_STATUSES }).notNull().default("submitted"),
     source: text("source", { enum: OBSERVATION_SOURCES }).notNull().default("form"),
     createdAt: createdAt(),
@@ -177,6 +182,8 @@ export const observations = sqliteTable(
     index("observations_date_idx").on(t.utDate),
     index("observations_status_created_idx").on(t.status, t.createdAt),
     index("observations_created_idx").on(t.createdAt),
+    uniqueIndex("observations_class_session_idx").on(t.observerId, t.classSessionId),
+    uniqueIndex("observations_import_key_idx").on(t.observerId, t.importKey),
   ],
 );
 
@@ -195,6 +202,8 @@ export const kCoefficients = sqliteTable(
     sigma: real("sigma"),
     commonDays: integer("common_days").notNull(),
     method: text("method").notNull(),
+    /** "quarter" or "year": how long a period the coefficient was fitted over. */
+    periodKind: text("period_kind").notNull().default("year"),
     reference: text("reference").notNull(),
     computedAt: createdAt(),
   },
@@ -267,6 +276,317 @@ export const capturedMail = sqliteTable("captured_mail", {
   textBody: text("text_body"),
   htmlBody: text("html_body"),
   receivedAt: createdAt(),
+});
+
+// ---------------------------------------------------------------------------
+// Review desk: decisions (the audit trail), automatic flags, notifications.
+// ---------------------------------------------------------------------------
+
+export const REVIEW_ACTIONS = ["accepted", "queried", "rejected", "resubmitted", "reopened"] as const;
+export type ReviewAction = (typeof REVIEW_ACTIONS)[number];
+
+/** Every status change of an observation: who, when, what and why. Never updated or deleted. */
+export const reviewDecisions = sqliteTable(
+  "review_decisions",
+  {
+    id: id(),
+    observationId: text("observation_id")
+      .notNull()
+      .references(() => observations.id, { onDelete: "cascade" }),
+    actorUserId: text("actor_user_id")
+      .notNull()
+      .references(() => users.id),
+    action: text("action", { enum: REVIEW_ACTIONS }).notNull(),
+    fromStatus: text("from_status", { enum: OBSERVATION_STATUSES }).notNull(),
+    toStatus: text("to_status", { enum: OBSERVATION_STATUSES }).notNull(),
+    note: text("note"),
+    createdAt: createdAt(),
+  },
+  (t) => [index("review_decisions_observation_idx").on(t.observationId, t.createdAt)],
+);
+
+export const FLAG_REASONS = [
+  "far-from-network",
+  "hemispheres-inconsistent",
+  "unusual-spots-per-group",
+  "second-of-the-day",
+] as const;
+export type FlagReason = (typeof FLAG_REASONS)[number];
+
+export const observationFlags = sqliteTable(
+  "observation_flags",
+  {
+    id: id(),
+    observationId: text("observation_id")
+      .notNull()
+      .references(() => observations.id, { onDelete: "cascade" }),
+    reason: text("reason", { enum: FLAG_REASONS }).notNull(),
+    detail: text("detail").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("observation_flags_observation_idx").on(t.observationId), index("observation_flags_reason_idx").on(t.reason)],
+);
+
+/** Messages shown in a user's Logbook (and also e-mailed). */
+export const notifications = sqliteTable(
+  "notifications",
+  {
+    id: id(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    kind: text("kind").notNull(),
+    message: text("message").notNull(),
+    link: text("link"),
+    readAt: integer("read_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("notifications_user_idx").on(t.userId, t.createdAt)],
+);
+
+/** Network-wide settings (thresholds, pilot observer, k period...), one JSON value per key. */
+export const settings = sqliteTable("settings", {
+  key: text("key").primaryKey(),
+  value: text("value", { mode: "json" }).notNull(),
+  updatedAt: createdAt(),
+});
+
+// ---------------------------------------------------------------------------
+// Reference series and the network's published series.
+// ---------------------------------------------------------------------------
+
+export const referenceSeries = sqliteTable("reference_series", {
+  id: id(),
+  name: text("name").notNull(),
+  licence: text("licence").notNull(),
+  source: text("source"),
+  importedByUserId: text("imported_by_user_id").references(() => users.id, { onDelete: "set null" }),
+  firstDay: text("first_day").notNull(),
+  lastDay: text("last_day").notNull(),
+  days: integer("days").notNull(),
+  importedAt: createdAt(),
+});
+
+export const referenceValues = sqliteTable(
+  "reference_values",
+  {
+    seriesId: text("series_id")
+      .notNull()
+      .references(() => referenceSeries.id, { onDelete: "cascade" }),
+    day: text("day").notNull(),
+    value: real("value").notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.seriesId, t.day] })],
+);
+
+export const HEMISPHERES = ["all", "N", "S"] as const;
+export type Hemisphere = (typeof HEMISPHERES)[number];
+
+/**
+ * The daily network index, stored with its running sums so that accepting
+ * one observation updates a day in constant time.
+ */
+export const seriesDaily = sqliteTable(
+  "series_daily",
+  {
+    day: text("day").notNull(),
+    hemisphere: text("hemisphere", { enum: HEMISPHERES }).notNull(),
+    observers: integer("observers").notNull(),
+    sum: real("sum").notNull(),
+    sumSquares: real("sum_squares").notNull(),
+    mean: real("mean").notNull(),
+    sd: real("sd"),
+    updatedAt: createdAt(),
+  },
+  (t) => [primaryKey({ columns: [t.hemisphere, t.day] })],
+);
+
+export const seriesMonthly = sqliteTable(
+  "series_monthly",
+  {
+    month: text("month").notNull(),
+    hemisphere: text("hemisphere", { enum: HEMISPHERES }).notNull(),
+    days: integer("days").notNull(),
+    sumOfDailyMeans: real("sum_of_daily_means").notNull(),
+    mean: real("mean").notNull(),
+    smoothed: real("smoothed"),
+    updatedAt: createdAt(),
+  },
+  (t) => [primaryKey({ columns: [t.hemisphere, t.month] })],
+);
+
+export const seriesYearly = sqliteTable(
+  "series_yearly",
+  {
+    year: integer("year").notNull(),
+    hemisphere: text("hemisphere", { enum: HEMISPHERES }).notNull(),
+    days: integer("days").notNull(),
+    mean: real("mean").notNull(),
+    updatedAt: createdAt(),
+  },
+  (t) => [primaryKey({ columns: [t.hemisphere, t.year] })],
+);
+
+export const JOB_STATUSES = ["queued", "running", "done", "failed"] as const;
+
+/** Background work a coordinator can follow (full recomputes, large imports). */
+export const jobs = sqliteTable(
+  "jobs",
+  {
+    id: id(),
+    kind: text("kind").notNull(),
+    status: text("status", { enum: JOB_STATUSES }).notNull().default("queued"),
+    progress: real("progress").notNull().default(0),
+    message: text("message"),
+    params: text("params", { mode: "json" }).$type<Record<string, unknown>>().notNull().default({}),
+    requestedByUserId: text("requested_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    startedAt: integer("started_at", { mode: "timestamp_ms" }),
+    finishedAt: integer("finished_at", { mode: "timestamp_ms" }),
+  },
+  (t) => [index("jobs_kind_created_idx").on(t.kind, t.createdAt)],
+);
+
+// ---------------------------------------------------------------------------
+// Disk tracer: tracings and the groups measured on them.
+// ---------------------------------------------------------------------------
+
+export const tracings = sqliteTable("tracings", {
+  id: id(),
+  observationId: text("observation_id")
+    .notNull()
+    .unique()
+    .references(() => observations.id, { onDelete: "cascade" }),
+  observerId: text("observer_id")
+    .notNull()
+    .references(() => observers.id, { onDelete: "cascade" }),
+  /** Version of the vector format (lib/validation/tracing.ts). */
+  formatVersion: integer("format_version").notNull(),
+  /** Increases by one on every save. */
+  revision: integer("revision").notNull().default(1),
+  vector: text("vector", { mode: "json" }).$type<Record<string, unknown>>().notNull(),
+  png: blob("png", { mode: "buffer" }),
+  createdAt: createdAt(),
+  updatedAt: integer("updated_at", { mode: "timestamp_ms" })
+    .notNull()
+    .default(sql`(unixepoch('subsec') * 1000)`),
+});
+
+export const observationGroups = sqliteTable(
+  "observation_groups",
+  {
+    id: id(),
+    observationId: text("observation_id")
+      .notNull()
+      .references(() => observations.id, { onDelete: "cascade" }),
+    number: integer("number").notNull(),
+    spots: integer("spots").notNull(),
+    zurichClass: text("zurich_class"),
+    mcintoshClass: text("mcintosh_class"),
+    latitudeDeg: real("latitude_deg").notNull(),
+    /** Central meridian distance, positive west. */
+    cmdDeg: real("cmd_deg").notNull(),
+    carringtonLonDeg: real("carrington_lon_deg").notNull(),
+    hemisphere: text("hemisphere", { enum: ["N", "S"] }).notNull(),
+    areaMsh: real("area_msh"),
+    createdAt: createdAt(),
+  },
+  (t) => [index("observation_groups_observation_idx").on(t.observationId)],
+);
+
+// ---------------------------------------------------------------------------
+// Photos of the projected disk (stored by the upload host).
+// ---------------------------------------------------------------------------
+
+export const photos = sqliteTable(
+  "photos",
+  {
+    id: id(),
+    fileKey: text("file_key").notNull().unique(),
+    observerId: text("observer_id")
+      .notNull()
+      .references(() => observers.id, { onDelete: "cascade" }),
+    observationId: text("observation_id").references(() => observations.id, { onDelete: "set null" }),
+    name: text("name").notNull(),
+    sizeBytes: integer("size_bytes").notNull(),
+    mimeType: text("mime_type").notNull(),
+    widthPx: integer("width_px"),
+    heightPx: integer("height_px"),
+    url: text("url").notNull(),
+    thumbnailKey: text("thumbnail_key"),
+    exifTakenAt: integer("exif_taken_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("photos_observer_idx").on(t.observerId), index("photos_observation_idx").on(t.observationId)],
+);
+
+// ---------------------------------------------------------------------------
+// Classroom sessions.
+// ---------------------------------------------------------------------------
+
+export const classroomSessions = sqliteTable(
+  "classroom_sessions",
+  {
+    id: id(),
+    classroomId: text("classroom_id")
+      .notNull()
+      .references(() => classrooms.id, { onDelete: "cascade" }),
+    title: text("title").notNull(),
+    /** The UT day of the session, "YYYY-MM-DD". */
+    day: text("day").notNull(),
+    opensAt: integer("opens_at", { mode: "timestamp_ms" }).notNull(),
+    closesAt: integer("closes_at", { mode: "timestamp_ms" }).notNull(),
+    instrumentName: text("instrument_name").notNull(),
+    instrumentKind: text("instrument_kind", { enum: INSTRUMENT_KINDS }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("classroom_sessions_classroom_idx").on(t.classroomId, t.day)],
+);
+
+// ---------------------------------------------------------------------------
+// Public API tokens, rate limits, imports.
+// ---------------------------------------------------------------------------
+
+export const API_TOKEN_SCOPES = ["read", "read-submit"] as const;
+
+export const apiTokens = sqliteTable(
+  "api_tokens",
+  {
+    id: id(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    name: text("name").notNull(),
+    /** SHA-256 of the secret; the secret itself is shown once and never stored. */
+    tokenHash: text("token_hash").notNull().unique(),
+    /** The first characters of the token, to tell tokens apart in lists. */
+    prefix: text("prefix").notNull(),
+    scope: text("scope", { enum: API_TOKEN_SCOPES }).notNull(),
+    lastUsedAt: integer("last_used_at", { mode: "timestamp_ms" }),
+    revokedAt: integer("revoked_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("api_tokens_user_idx").on(t.userId)],
+);
+
+/** Fixed-window request counters (per API token, per classroom code attempt...). */
+export const rateLimits = sqliteTable("rate_limits", {
+  key: text("key").primaryKey(),
+  windowStartedAt: integer("window_started_at", { mode: "timestamp_ms" }).notNull(),
+  count: integer("count").notNull(),
+});
+
+export const importBatches = sqliteTable("import_batches", {
+  id: id(),
+  observerId: text("observer_id")
+    .notNull()
+    .references(() => observers.id, { onDelete: "cascade" }),
+  byUserId: text("by_user_id").references(() => users.id, { onDelete: "set null" }),
+  fileName: text("file_name").notNull(),
+  fileHash: text("file_hash").notNull(),
+  rowsImported: integer("rows_imported").notNull(),
+  rowsSkipped: integer("rows_skipped").notNull(),
+  createdAt: createdAt(),
 });
 
 export type User = typeof users.$inferSelect;

@@ -55,8 +55,12 @@ export async function requireObserver(
   return { user, observer };
 }
 
+/**
+ * getToken wants a NextRequest. Copy only the URL and headers: building one
+ * from the request itself would lock its body, which the handler still reads.
+ */
 function toNextRequest(request: Request): NextRequest {
-  return request instanceof NextRequest ? request : new NextRequest(request);
+  return new NextRequest(request.url, { headers: request.headers });
 }
 
 async function requestFromContext(): Promise<NextRequest> {

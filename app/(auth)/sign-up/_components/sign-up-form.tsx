@@ -16,10 +16,13 @@ export function SignUpForm() {
   const [state, action, pending] = useActionState(signUpAction, { ok: false });
   const [clientErrors, setClientErrors] = useState<Record<string, string>>({});
   const credentials = useRef<{ email: string; password: string } | null>(null);
-  const [timeZone, setTimeZone] = useState("UTC");
+  const timeZoneInput = useRef<HTMLInputElement>(null);
 
+  // The browser knows the visitor's time zone; the server does not.
   useEffect(() => {
-    setTimeZone(Intl.DateTimeFormat().resolvedOptions().timeZone || "UTC");
+    if (timeZoneInput.current && !timeZoneInput.current.value) {
+      timeZoneInput.current.value = Intl.DateTimeFormat().resolvedOptions().timeZone || "UTC";
+    }
   }, []);
 
   useEffect(() => {
@@ -67,7 +70,7 @@ export function SignUpForm() {
         <Input id="country" name="country" maxLength={2} className="w-24 uppercase" aria-invalid={Boolean(errors?.country)} />
       </Field>
       <Field id="timeZone" label="Time zone" hint="Used to show your local time beside UT." error={errors?.timeZone}>
-        <Input id="timeZone" name="timeZone" value={timeZone} onChange={(e) => setTimeZone(e.target.value)} aria-invalid={Boolean(errors?.timeZone)} />
+        <Input id="timeZone" name="timeZone" ref={timeZoneInput} aria-invalid={Boolean(errors?.timeZone)} />
       </Field>
       <Button type="submit" disabled={pending || state.ok}>
         {pending ? "Creating your account…" : "Create my account"}

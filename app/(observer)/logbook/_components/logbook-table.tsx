@@ -36,8 +36,9 @@ export function LogbookTable({ timeZone }: { timeZone: string }) {
   const [from, setFrom] = useState("");
   const [to, setTo] = useState("");
   const [page, setPage] = useState<Page>({ data: [], total: 0 });
-  const [loading, setLoading] = useState(true);
-  const [error, setError] = useState<string | null>(null);
+  // The query a result belongs to: the table is loading while the current
+  // query differs from the one whose answer is shown.
+  const [answered, setAnswered] = useState<{ query: string; error: string | null } | null>(null);
 
   const columns = useMemo(
     () => [
@@ -67,9 +68,7 @@ export function LogbookTable({ timeZone }: { timeZone: string }) {
 
   const dateError = from && to && from > to ? "The end date is before the start date." : null;
 
-  useEffect(() => {
-    if (dateError) return;
-    const controller = new AbortController();
+  const query = useMemo(() => {
     const params = new URLSearchParams({
       page: String(pagination.pageIndex + 1),
       pageSize: String(pagination.pageSize),
@@ -77,22 +76,27 @@ export function LogbookTable({ timeZone }: { timeZone: string }) {
     });
     if (from) params.set("from", from);
     if (to) params.set("to", to);
-    setLoading(true);
-    fetch(`/api/v1/observations?${params}`, { signal: controller.signal })
+    return params.toString();
+  }, [pagination, sorting, from, to]);
+
+  useEffect(() => {
+    if (dateError) return;
+    const controller = new AbortController();
+    fetch(`/api/v1/observations?${query}`, { signal: controller.signal })
       .then(async (res) => {
         const body = await res.json();
         if (!res.ok) throw new Error(body?.error?.message ?? "The Logbook could not be loaded.");
         setPage(body as Page);
-        setError(null);
+        setAnswered({ query, error: null });
       })
       .catch((e: unknown) => {
-        if (!controller.signal.aborted) setError((e as Error).message);
-      })
-      .finally(() => {
-        if (!controller.signal.aborted) setLoading(false);
+        if (!controller.signal.aborted) setAnswered({ query, error: (e as Error).message });
       });
     return () => controller.abort();
-  }, [pagination, sorting, from, to, dateError]);
+  }, [query, dateError]);
+
+  const loading = !dateError && answered?.query !== query;
+  const error = answered?.query === query ? answered.error : null;
 
   const filtered = Boolean(from || to);
 

@@ -26,7 +26,7 @@ export default async function NewObservationPage() {
             You have no instruments yet. Ask your coordinator to add one, then come back to log your count.
           </p>
         ) : (
-          <ObservationForm instruments={options} timeZone={observer.timeZone} />
+          <ObservationForm instruments={options} timeZone={observer.timeZone} nowIso={new Date().toISOString()} />
         )}
         <p className="mt-4 text-sm text-ink-600">
           <Link href="/logbook" className="text-corona-700 underline">

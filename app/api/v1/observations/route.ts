@@ -33,6 +33,10 @@ export const POST = handleRoute(async (request: Request) => {
   if (!parsed.success) throw invalidInput(parsed.error);
   return withIdempotency({ request, userId: user.id, scope: "POST /api/v1/observations", body }, async () => ({
     status: 201,
-    body: await submitObservation({ observerId: observer.id, input: parsed.data, source: "api" }),
+    body: await submitObservation({
+      observerId: observer.id,
+      input: parsed.data,
+      source: request.headers.get("x-heliotally-client") === "logbook-form" ? "form" : "api",
+    }),
   }));
 });

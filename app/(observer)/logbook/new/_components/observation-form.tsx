@@ -1,7 +1,7 @@
 "use client";
 
 import Link from "next/link";
-import { useEffect, useMemo, useRef, useState } from "react";
+import { useMemo, useRef, useState } from "react";
 
 import { Button } from "@/components/ui/button";
 import { Field, FormMessage, Input, Select, TextArea } from "@/components/ui/field";
@@ -14,9 +14,25 @@ type Created = { id: string; relativeNumber: number; k: number; groups: number; 
 
 const COUNT_FIELDS = ["groups", "spots", "northGroups", "northSpots", "southGroups", "southSpots"] as const;
 
-export function ObservationForm({ instruments, timeZone }: { instruments: InstrumentOption[]; timeZone: string }) {
-  const [date, setDate] = useState("");
-  const [time, setTime] = useState("");
+/** crypto.randomUUID needs a secure context; getRandomValues works on plain http too. */
+function makeIdempotencyKey(): string {
+  const bytes = new Uint8Array(16);
+  crypto.getRandomValues(bytes);
+  return `obs-${Array.from(bytes, (b) => b.toString(16).padStart(2, "0")).join("")}`;
+}
+
+export function ObservationForm({
+  instruments,
+  timeZone,
+  nowIso,
+}: {
+  instruments: InstrumentOption[];
+  timeZone: string;
+  /** The server's clock at render time, so the form opens on "now" in UT. */
+  nowIso: string;
+}) {
+  const [date, setDate] = useState(() => toUtInputs(new Date(nowIso)).date);
+  const [time, setTime] = useState(() => toUtInputs(new Date(nowIso)).time);
   const [values, setValues] = useState<Record<string, string>>({
     seeing: "3",
     instrumentId: instruments[0]?.id ?? "",
@@ -35,14 +51,7 @@ export function ObservationForm({ instruments, timeZone }: { instruments: Instru
   const [created, setCreated] = useState<Created | null>(null);
   // One key per filled-in form: a double click or a retry after a dropped
   // connection cannot log the same count twice.
-  const idempotencyKey = useRef("");
-
-  useEffect(() => {
-    const now = toUtInputs(new Date());
-    setDate(now.date);
-    setTime(now.time);
-    idempotencyKey.current = crypto.randomUUID();
-  }, []);
+  const idempotencyKey = useRef<string | null>(null);
 
   const observedAt = fromUtInputs(date, time);
   const localTime = observedAt ? formatLocal(observedAt, timeZone) : "";
@@ -82,7 +91,12 @@ export function ObservationForm({ instruments, timeZone }: { instruments: Instru
       );
       const res = await fetch("/api/v1/observations", {
         method: "POST",
-        headers: { "content-type": "application/json", "idempotency-key": idempotencyKey.current },
+        headers: {
+          "content-type": "application/json",
+          "idempotency-key": (idempotencyKey.current ??= makeIdempotencyKey()),
+          // Marks the count as typed into the Logbook form rather than sent by a script.
+          "x-heliotally-client": "logbook-form",
+        },
         body: JSON.stringify(payload),
       });
       const body = await res.json();
@@ -120,7 +134,7 @@ export function ObservationForm({ instruments, timeZone }: { instruments: Instru
             onClick={() => {
               setCreated(null);
               setValues((v) => ({ ...v, groups: "", spots: "", northGroups: "", northSpots: "", southGroups: "", southSpots: "", notes: "" }));
-              idempotencyKey.current = crypto.randomUUID();
+              idempotencyKey.current = null;
             }}
           >
             Log another

@@ -1,0 +1,62 @@
+import type { BrowserContext } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+
+import { newPage, openBrowser, screenshot, signIn } from "./browser";
+
+const baseUrl = inject("baseUrl");
+
+describe("an observer logs today's count and a coordinator sees it arrive", () => {
+  let observer: BrowserContext;
+  let coordinator: BrowserContext;
+  beforeAll(async () => {
+    [observer, coordinator] = await Promise.all([openBrowser(), openBrowser()]);
+  });
+  afterAll(async () => {
+    await Promise.all([observer.close(), coordinator.close()]);
+  });
+
+  it("shows a clear message beside the field for a bad count and saves nothing", async () => {
+    const page = await newPage(observer);
+    await signIn(page, baseUrl, "observer@example.test");
+    await page.goto(`${baseUrl}/logbook/new`);
+    await page.fill("#groups", "5");
+    await page.fill("#spots", "3");
+    await page.getByRole("button", { name: "Save count" }).click();
+    await expect(page.locator("#spots-error").textContent()).resolves.toContain("Fewer spots than groups");
+    await expect(page.getByText("Count saved").count()).resolves.toBe(0);
+  });
+
+  it("logs a count, shows R, and lists it in the Logbook", async () => {
+    const page = await newPage(observer);
+    await page.goto(`${baseUrl}/logbook/new`);
+    await page.getByText("Safety", { exact: false }).first().waitFor();
+    await page.fill("#groups", "4");
+    await page.fill("#spots", "23");
+    await expect(page.getByTestId("r-preview").textContent()).resolves.toContain("63.0");
+    await page.fill("#notes", "E2E: thin cirrus to the west");
+    await screenshot(page, "observer-log-form");
+    await page.getByRole("button", { name: "Save count" }).click();
+    await page.getByText("Count saved").waitFor();
+    await expect(page.getByRole("status").first().textContent()).resolves.toContain("R = 63.0");
+
+    await page.getByRole("link", { name: "Open the Logbook" }).click();
+    await page.waitForURL("**/logbook");
+    const firstRow = page.locator("tbody tr").first();
+    await firstRow.getByText("Awaiting review").waitFor();
+    const cells = await firstRow.locator("td").allTextContents();
+    expect(cells).toEqual(expect.arrayContaining(["4", "23", "63.0"]));
+    await screenshot(page, "observer-logbook");
+  });
+
+  it("appears at the top of the coordinator's Review desk", async () => {
+    const page = await newPage(coordinator);
+    await signIn(page, baseUrl, "coordinator@example.test");
+    await page.goto(`${baseUrl}/review`);
+    await page.getByRole("table").waitFor({ state: "visible" });
+    const firstRow = page.locator("tbody tr").first();
+    const text = await firstRow.textContent();
+    expect(text).toContain("Wren Halloway");
+    expect(text).toContain("63");
+    await screenshot(page, "coordinator-review");
+  });
+});

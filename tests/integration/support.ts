@@ -1,0 +1,56 @@
+import { encode } from "next-auth/jwt";
+import { NextRequest } from "next/server";
+
+import { getDb } from "@/db/client";
+import { classroomMembers, classrooms, instruments, observers, users } from "@/db/schema";
+import type { Role } from "@/lib/auth/roles";
+
+let counter = 0;
+
+/** Makes a user (and, for logging roles, an observer profile with one instrument). */
+export async function makeUser({ role, name }: { role: Role; name?: string }) {
+  counter += 1;
+  const db = getDb();
+  const [user] = await db
+    .insert(users)
+    .values({ name: name ?? `${role} ${counter}`, email: role === "student" ? null : `${role}${counter}@example.test`, role })
+    .returning();
+  if (!user) throw new Error("no user");
+  if (role !== "observer" && role !== "student") return { user, observer: null, instrument: null };
+  const [observer] = await db
+    .insert(observers)
+    .values({ userId: user.id, displayName: user.name ?? "x", code: `HT-T${String(counter).padStart(3, "0")}`, timeZone: "Europe/London" })
+    .returning();
+  const [instrument] = await db.insert(instruments).values({ observerId: observer!.id, name: "Test pinhole", kind: "pinhole" }).returning();
+  return { user, observer: observer!, instrument: instrument! };
+}
+
+export async function enrolStudent({ educatorUserId, studentUserId }: { educatorUserId: string; studentUserId: string }) {
+  const db = getDb();
+  const [room] = await db
+    .insert(classrooms)
+    .values({ educatorUserId, name: "Test class", school: "Test school", termStart: "2026-01-01", termEnd: "2026-12-31", joinCode: `T-${++counter}` })
+    .returning();
+  await db.insert(classroomMembers).values({ classroomId: room!.id, userId: studentUserId, pinHash: "x" });
+  return room!;
+}
+
+/** A session cookie exactly as next-auth would set it after sign-in. */
+export async function sessionCookie(userId: string): Promise<string> {
+  const token = await encode({ token: { sub: userId }, secret: process.env.NEXTAUTH_SECRET! });
+  return `next-auth.session-token=${token}`;
+}
+
+export async function apiRequest(
+  url: string,
+  { method = "GET", userId, body, headers = {} }: { method?: string; userId?: string; body?: unknown; headers?: Record<string, string> } = {},
+) {
+  const h = new Headers(headers);
+  if (userId) h.set("cookie", await sessionCookie(userId));
+  let payload: string | undefined;
+  if (body !== undefined) {
+    payload = typeof body === "string" ? body : JSON.stringify(body);
+    if (!h.has("content-type")) h.set("content-type", "application/json");
+  }
+  return new NextRequest(new URL(url, "http://localhost:3999"), { method, headers: h, body: payload });
+}

@@ -1,0 +1,26 @@
+import { requireRole } from "@/lib/auth/session";
+import { invalidInput } from "@/lib/http/errors";
+import { withIdempotency } from "@/lib/http/idempotency";
+import { readJsonBody } from "@/lib/http/read-json";
+import { handleRoute } from "@/lib/http/respond";
+import { decideObservations } from "@/lib/review/decide";
+import { reviewDecisionSchema } from "@/lib/validation/review";
+
+/**
+ * Accept, query, reject or reopen one or many observations, all or none.
+ * Honours Idempotency-Key, so a retried bulk accept is not refused as a
+ * conflict the second time.
+ */
+export const POST = handleRoute(async (request: Request) => {
+  const user = await requireRole(["coordinator"], { request });
+  const body = await readJsonBody(request);
+  const parsed = reviewDecisionSchema.safeParse(body);
+  if (!parsed.success) throw invalidInput(parsed.error);
+  return withIdempotency(
+    { request, userId: user.id, scope: "POST /api/v1/review/decisions", body },
+    async () => ({
+      status: 200,
+      body: await decideObservations({ actorUserId: user.id, input: parsed.data }),
+    }),
+  );
+});

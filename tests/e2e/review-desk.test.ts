@@ -1,0 +1,105 @@
+import { createClient } from "@libsql/client";
+import type { BrowserContext } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+
+import { newPage, openBrowser, screenshot, signIn } from "./browser";
+
+const baseUrl = inject("baseUrl");
+const databaseUrl = inject("databaseUrl");
+
+const NOTE =
+  "E2E: this count is far above everyone else's that day. Could you check your sketch for a slipped digit?";
+
+/**
+ * The newest flagged count waiting for review whose observer can sign in by
+ * e-mail (students cannot), read straight from the app's database; every
+ * demo account shares the demo password.
+ */
+async function findFlaggedCount(): Promise<{ id: string; email: string }> {
+  const client = createClient({ url: databaseUrl });
+  try {
+    const result = await client.execute(
+      `select o.id, u.email from observations o
+       join observers ob on ob.id = o.observer_id
+       join users u on u.id = ob.user_id
+       where o.status = 'submitted' and u.email is not null
+         and exists (select 1 from observation_flags f where f.observation_id = o.id)
+       order by o.created_at desc limit 1`,
+    );
+    const row = result.rows[0];
+    if (!row || typeof row.id !== "string" || typeof row.email !== "string") {
+      throw new Error("The demo seed left no flagged count waiting for review.");
+    }
+    return { id: row.id, email: row.email };
+  } finally {
+    client.close();
+  }
+}
+
+describe("the coordinator queries a flagged count and its observer reads the note", () => {
+  let coordinator: BrowserContext;
+  let observer: BrowserContext;
+  let target = { id: "", email: "" };
+
+  beforeAll(async () => {
+    [coordinator, observer] = await Promise.all([openBrowser(), openBrowser()]);
+  });
+  afterAll(async () => {
+    await Promise.all([coordinator.close(), observer.close()]);
+  });
+
+  it("shows the demo's planted outliers flagged on the Review desk", async () => {
+    const page = await newPage(coordinator);
+    await signIn(page, baseUrl, "coordinator@example.test");
+    await page.goto(`${baseUrl}/review`);
+    await page.getByRole("tab", { name: /Awaiting review/ }).waitFor();
+    await page.getByLabel("Flags", { exact: true }).selectOption("any");
+    await page.locator('tbody tr [aria-label="Automatic flags"] li').first().waitFor();
+    // The planted slipped digits sit far above the day's network whatever the k values.
+    expect(await page.locator("tbody").getByText("Far from the network").count()).toBeGreaterThan(0);
+    // Every row left by the "Any flag" filter carries at least one chip.
+    const rows = await page.locator("tbody tr").count();
+    expect(await page.locator('tbody tr:has([aria-label="Automatic flags"])').count()).toBe(rows);
+    await screenshot(page, "review-desk-flagged");
+  });
+
+  it("queries one of them with a note, which the decision history keeps", async () => {
+    target = await findFlaggedCount();
+    const page = await newPage(coordinator);
+    // Still on the desk, filtered to flagged rows: open the chosen one from the table.
+    await page.locator(`tbody a[href="/review/${target.id}"]`).click();
+    await page.waitForURL(`**/review/${target.id}`);
+    await page.getByRole("heading", { name: "Automatic flags" }).waitFor();
+
+    // A query without a note is refused beside the field and sends nothing.
+    await page.getByRole("button", { name: "Send a query" }).click();
+    await expect(page.locator("#note-error").textContent()).resolves.toContain("Write the question");
+
+    await page.fill("#note", NOTE);
+    await page.getByRole("button", { name: "Send a query" }).click();
+    await page.getByText("Queried: the observer has been told").waitFor();
+    await page.getByTestId("audit-entry").filter({ hasText: NOTE }).waitFor();
+    await expect(page.getByText("Question from coordinator").first().isVisible()).resolves.toBe(true);
+    await screenshot(page, "review-desk-queried");
+  });
+
+  it("shows the note in the observer's Logbook and on the count, with the form to send it back", async () => {
+    const page = await newPage(observer);
+    await signIn(page, baseUrl, target.email);
+    await page.goto(`${baseUrl}/logbook`);
+    const inbox = page.getByRole("region", { name: /From your coordinator/ });
+    await inbox.getByText(NOTE, { exact: false }).waitFor();
+    await screenshot(page, "logbook-inbox");
+
+    await inbox.getByRole("link", { name: "Open the count" }).first().click();
+    await page.waitForURL(`**/logbook/${target.id}`);
+    await expect(page.getByTestId("coordinator-note").textContent()).resolves.toContain(NOTE);
+    await page.getByRole("button", { name: "Send back for review" }).waitFor();
+    await screenshot(page, "logbook-queried-count");
+
+    // Opening the count marked the message read: it has left the inbox.
+    await page.goto(`${baseUrl}/logbook`);
+    await page.getByRole("heading", { name: "Logbook", exact: true }).waitFor();
+    await expect(page.getByText(NOTE, { exact: false }).count()).resolves.toBe(0);
+  });
+});

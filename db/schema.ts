@@ -184,6 +184,12 @@ export const observations = sqliteTable(
     index("observations_created_idx").on(t.createdAt),
     uniqueIndex("observations_class_session_idx").on(t.observerId, t.classSessionId),
     uniqueIndex("observations_import_key_idx").on(t.observerId, t.importKey),
+    // Covers everything the network series reads from accepted counts, in day
+    // order: a full recompute streams it without touching the table or
+    // sorting, and refreshing one day is a single range seek.
+    index("observations_accepted_day_idx")
+      .on(t.utDate, t.instrumentId, t.groups, t.spots, t.northGroups, t.northSpots, t.southGroups, t.southSpots)
+      .where(sql`status = 'accepted'`),
   ],
 );
 

@@ -4,6 +4,7 @@
  */
 import { getDb } from "@/db/client";
 import { prepareDatabase } from "@/db/prepare";
+import { runFullRecompute } from "@/db/queries/recompute";
 import { isDatabaseEmpty, seedDemo } from "@/db/seed";
 import { getEnv } from "@/lib/env";
 
@@ -15,6 +16,9 @@ export async function prepareAndSeed({ log = console.log }: { log?: (line: strin
     const started = Date.now();
     const { observations } = await seedDemo(db);
     log(`Seeded the demo network (invented data): ${observations} observations in ${Date.now() - started} ms.`);
+    // Fit every k and fill the Archive now, so the demo opens with a series.
+    const recomputed = await runFullRecompute();
+    log(`Fitted ${recomputed.kCoefficients} k coefficients; the series holds ${recomputed.days} days.`);
   }
 }
 

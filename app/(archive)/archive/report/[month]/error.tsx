@@ -1,0 +1,13 @@
+"use client";
+
+import { Button } from "@/components/ui/button";
+
+export default function ReportError({ reset }: { error: Error; reset: () => void }) {
+  return (
+    <div className="flex flex-col items-start gap-3">
+      <h1 className="text-xl font-semibold">The monthly report could not be prepared</h1>
+      <p className="text-sm text-ink-600">The series is safe. Try again in a moment.</p>
+      <Button onClick={reset}>Try again</Button>
+    </div>
+  );
+}

@@ -1,0 +1,212 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+
+import { PageHeader } from "@/components/layout/app-shell";
+import { getMonthReport } from "@/db/queries/series-read";
+import { requirePageRole } from "@/lib/auth/page-guard";
+import { ROLES } from "@/lib/auth/roles";
+import { formatRelativeNumber } from "@/lib/format/time";
+import { formatMonth, parseMonth } from "@/lib/series/periods";
+
+import { PrintButton } from "./_components/print-button";
+import { ReportChart } from "./_components/report-chart";
+
+type Props = { params: Promise<{ month: string }> };
+
+export async function generateMetadata({ params }: Props): Promise<Metadata> {
+  return { title: `Monthly report ${(await params).month}` };
+}
+
+const value = (v: number | null | undefined) => (v == null ? "—" : formatRelativeNumber(v));
+
+function monthTitle(month: string): string {
+  return new Intl.DateTimeFormat("en-GB", { month: "long", year: "numeric", timeZone: "UTC" }).format(
+    new Date(`${month}-01T00:00:00Z`),
+  );
+}
+
+/** A printable summary of one month of the network series. */
+export default async function MonthReportPage({ params }: Props) {
+  await requirePageRole(ROLES);
+  const { month } = await params;
+  const report = await getMonthReport({ month });
+  if (!report) notFound();
+  const index = parseMonth(month)!;
+  const hasData = report.days.length > 0;
+
+  return (
+    <article className="report flex flex-col gap-6 print:gap-4">
+      <nav className="no-print flex flex-wrap items-center justify-between gap-3 text-sm">
+        <Link href="/archive" className="text-corona-700 underline">
+          ← Archive
+        </Link>
+        <div className="flex items-center gap-3">
+          <Link href={`/archive/report/${formatMonth(index - 1)}`} className="text-corona-700 underline">
+            ← {formatMonth(index - 1)}
+          </Link>
+          <Link href={`/archive/report/${formatMonth(index + 1)}`} className="text-corona-700 underline">
+            {formatMonth(index + 1)} →
+          </Link>
+          <PrintButton />
+        </div>
+      </nav>
+      <PageHeader
+        title={`Monthly report · ${monthTitle(month)}`}
+        lead="The network's relative numbers for the month from accepted counts: daily index, monthly means and the 13-month smoothed value, by hemisphere, and who observed."
+      />
+      {!hasData ? (
+        <p className="rounded-lg border border-dashed border-ink-200 px-4 py-6 text-sm text-ink-600">
+          No accepted counts in {monthTitle(month)}. Pick another month, or check the Review desk for counts
+          still waiting.
+        </p>
+      ) : (
+        <>
+          <section aria-labelledby="means-heading">
+            <h2 id="means-heading" className="mb-2 text-lg font-semibold text-ink-900">
+              Means
+            </h2>
+            <dl className="grid grid-cols-2 gap-3 sm:grid-cols-4 print:grid-cols-4">
+              <Figure
+                label="Monthly mean"
+                value={value(report.means.all?.mean)}
+                detail={`${report.means.all?.days ?? 0} days with data`}
+              />
+              <Figure
+                label="13-month smoothed"
+                value={value(report.means.all?.smoothed)}
+                detail={
+                  report.means.all?.smoothed == null
+                    ? "needs six months on each side"
+                    : "tapered 13-month mean"
+                }
+              />
+              <Figure
+                label="North"
+                value={value(report.means.N?.mean)}
+                detail={`smoothed ${value(report.means.N?.smoothed)}`}
+              />
+              <Figure
+                label="South"
+                value={value(report.means.S?.mean)}
+                detail={`smoothed ${value(report.means.S?.smoothed)}`}
+              />
+            </dl>
+          </section>
+          <section aria-labelledby="chart-heading" className="break-inside-avoid">
+            <h2 id="chart-heading" className="mb-2 text-lg font-semibold text-ink-900">
+              Daily values
+            </h2>
+            <ReportChart
+              days={report.days.map((d) => d.day)}
+              all={report.days.map((d) => d.all?.mean ?? null)}
+              north={report.days.map((d) => d.north)}
+              south={report.days.map((d) => d.south)}
+            />
+          </section>
+          <section aria-labelledby="days-heading">
+            <h2 id="days-heading" className="mb-2 text-lg font-semibold text-ink-900">
+              Daily table
+            </h2>
+            <table className="min-w-full border border-ink-100 bg-white text-sm">
+              <caption className="sr-only">Daily relative numbers in {monthTitle(month)}</caption>
+              <thead className="bg-ink-50 text-left text-xs tracking-wide text-ink-600 uppercase">
+                <tr>
+                  <th scope="col" className="px-3 py-1.5">
+                    UT day
+                  </th>
+                  <th scope="col" className="px-3 py-1.5">
+                    Relative number
+                  </th>
+                  <th scope="col" className="px-3 py-1.5">
+                    Observers
+                  </th>
+                  <th scope="col" className="px-3 py-1.5">
+                    SD
+                  </th>
+                  <th scope="col" className="px-3 py-1.5">
+                    North
+                  </th>
+                  <th scope="col" className="px-3 py-1.5">
+                    South
+                  </th>
+                </tr>
+              </thead>
+              <tbody className="tabular-nums">
+                {report.days.map((d) => (
+                  <tr key={d.day} className="break-inside-avoid border-t border-ink-100">
+                    <td className="px-3 py-1">{d.day}</td>
+                    <td className="px-3 py-1 font-semibold">{value(d.all?.mean)}</td>
+                    <td className="px-3 py-1">{d.all?.observers ?? "—"}</td>
+                    <td className="px-3 py-1">{value(d.all?.sd)}</td>
+                    <td className="px-3 py-1">{value(d.north)}</td>
+                    <td className="px-3 py-1">{value(d.south)}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </section>
+          <section aria-labelledby="observers-heading" className="break-inside-avoid">
+            <h2 id="observers-heading" className="mb-2 text-lg font-semibold text-ink-900">
+              Observers ({new Set(report.observers.map((o) => o.code)).size})
+            </h2>
+            <table className="min-w-full border border-ink-100 bg-white text-sm">
+              <caption className="sr-only">
+                Observers whose counts were accepted in {monthTitle(month)}
+              </caption>
+              <thead className="bg-ink-50 text-left text-xs tracking-wide text-ink-600 uppercase">
+                <tr>
+                  <th scope="col" className="px-3 py-1.5">
+                    Observer
+                  </th>
+                  <th scope="col" className="px-3 py-1.5">
+                    Code
+                  </th>
+                  <th scope="col" className="px-3 py-1.5">
+                    Instrument
+                  </th>
+                  <th scope="col" className="px-3 py-1.5">
+                    Counts
+                  </th>
+                  <th scope="col" className="px-3 py-1.5">
+                    Mean 10g + s
+                  </th>
+                  <th scope="col" className="px-3 py-1.5">
+                    k used
+                  </th>
+                </tr>
+              </thead>
+              <tbody className="tabular-nums">
+                {report.observers.map((o) => (
+                  <tr key={`${o.code}-${o.instrumentName}`} className="border-t border-ink-100">
+                    <td className="px-3 py-1">{o.displayName}</td>
+                    <td className="px-3 py-1">{o.code}</td>
+                    <td className="px-3 py-1">{o.instrumentName}</td>
+                    <td className="px-3 py-1">{o.counts}</td>
+                    <td className="px-3 py-1">{o.meanRaw.toFixed(1)}</td>
+                    <td className="px-3 py-1">{o.k.toFixed(3)}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </section>
+        </>
+      )}
+      <p className="text-xs text-ink-500">
+        Relative number R = k(10g + s) per observer; the daily index is the mean over the day&apos;s
+        observers; the monthly mean is over days with data; the smoothed value is the 13-month tapered mean
+        [R(n−6) + 2(R(n−5) + … + R(n+5)) + R(n+6)] / 24. Printed from Heliotally.
+      </p>
+    </article>
+  );
+}
+
+function Figure({ label, value, detail }: { label: string; value: string; detail: string }) {
+  return (
+    <div className="rounded-lg border border-ink-100 bg-white px-4 py-3 shadow-sm print:shadow-none">
+      <dt className="text-xs font-semibold tracking-wide text-ink-500 uppercase">{label}</dt>
+      <dd className="text-2xl font-semibold text-ink-950 tabular-nums">{value}</dd>
+      <dd className="text-xs text-ink-500">{detail}</dd>
+    </div>
+  );
+}

@@ -1,0 +1,506 @@
+import "server-only";
+
+import { formatDayNumber, toDayNumber } from "@/lib/counts/series";
+import {
+  appendPackedDay,
+  createAcceptedCounts,
+  sliceByKey,
+  type AcceptedCounts,
+} from "@/lib/series/accepted-counts";
+import {
+  buildKLookup,
+  buildStoredKResolver,
+  fitPeriodK,
+  type KFit,
+  type KReference,
+  type KUnit,
+} from "@/lib/series/k-fit";
+import { computeNetworkSeries } from "@/lib/series/network-series";
+import { describePeriod, findPeriodIndex } from "@/lib/series/periods";
+import { NETWORK_REFERENCE, type KSettings } from "@/lib/validation/k-settings";
+
+import { getDb } from "../client";
+import { createJob, findActiveJob, finishJob, markJobRunning, reportJobProgress, type JobView } from "./jobs";
+import { getKSettings, K_REFERENCE } from "./k";
+import { getReferenceSeries, loadReferenceValues } from "./reference-series";
+import {
+  acceptedDayIndexHint,
+  bumpSeriesRevisionStatement,
+  DAILY_COLUMNS,
+  dailyValues,
+  insertRows,
+  refreshSeriesForDays,
+  watchDirtyDays,
+} from "./series";
+
+export const RECOMPUTE_JOB_KIND = "series-recompute";
+
+export type Units = { units: KUnit[]; observerOfUnit: Int32Array; labelOf: (unit: number) => string };
+
+/**
+ * Every accepted count, in day order, as typed arrays. The database packs
+ * each day's counts into one string (see appendPackedDay for why); units
+ * are instruments, each belonging to one observer.
+ */
+export async function loadAcceptedCounts(): Promise<{ counts: AcceptedCounts } & Units> {
+  const client = getDb().$client;
+  const instrumentRows = await client.execute(
+    `SELECT i.rowid AS rowNumber, i.id AS instrumentId, i.observer_id AS observerId, i.name AS instrumentName,
+            ob.display_name AS displayName, ob.code AS code
+     FROM instruments i JOIN observers ob ON ob.id = i.observer_id ORDER BY i.rowid`,
+  );
+  const units: KUnit[] = [];
+  const labels: string[] = [];
+  const unitOfRow = new Map<number, number>();
+  const observerIndex = new Map<string, number>();
+  const observerOfUnitList: number[] = [];
+  for (const row of instrumentRows.rows) {
+    const observerId = String(row.observerId);
+    unitOfRow.set(Number(row.rowNumber), units.length);
+    units.push({ observerId, instrumentId: String(row.instrumentId) });
+    labels.push(`${String(row.displayName)} (${String(row.code)}, ${String(row.instrumentName)})`);
+    if (!observerIndex.has(observerId)) observerIndex.set(observerId, observerIndex.size);
+    observerOfUnitList.push(observerIndex.get(observerId)!);
+  }
+
+  const hint = await acceptedDayIndexHint();
+  const packed = await client.execute(`
+    SELECT o.ut_date AS day,
+           group_concat(i.rowid || ' ' || (10 * o.groups + o.spots) ||
+             CASE WHEN o.north_groups IS NULL OR o.north_spots IS NULL OR o.south_groups IS NULL OR o.south_spots IS NULL THEN ''
+                  ELSE ' ' || (10 * o.north_groups + o.north_spots) || ' ' || (10 * o.south_groups + o.south_spots) END, ',') AS packed,
+           count(*) AS n
+    FROM observations o ${hint} JOIN instruments i ON i.id = o.instrument_id
+    WHERE o.status = 'accepted'
+    GROUP BY o.ut_date
+    ORDER BY o.ut_date`);
+  let total = 0;
+  for (const row of packed.rows) total += Number(row.n);
+  const counts = createAcceptedCounts(total);
+  const unitOfKey = (key: number) => unitOfRow.get(key);
+  for (const row of packed.rows) {
+    appendPackedDay({
+      counts,
+      dayNumber: toDayNumber(String(row.day)),
+      packed: String(row.packed),
+      unitOfKey,
+    });
+  }
+  return {
+    counts,
+    units,
+    observerOfUnit: Int32Array.from(observerOfUnitList),
+    labelOf: (unit) => labels[unit] ?? `unit ${unit}`,
+  };
+}
+
+export type RecomputeSummary = {
+  observations: number;
+  units: number;
+  periods: number;
+  kCoefficients: number;
+  days: number;
+  months: number;
+  notes: string[];
+  timingsMs: Record<string, number>;
+};
+
+type Progress = (fraction: number, message: string) => Promise<void> | void;
+
+/** The observer with the most accepted counts: the pilot when none is chosen. */
+function findBusiestObserver({ counts, units }: { counts: AcceptedCounts; units: KUnit[] }): string | null {
+  const perUnit = new Int32Array(units.length);
+  for (let i = 0; i < counts.length; i++)
+    perUnit[counts.unit[i] as number] = (perUnit[counts.unit[i] as number] as number) + 1;
+  const perObserver = new Map<string, number>();
+  units.forEach((u, i) =>
+    perObserver.set(u.observerId, (perObserver.get(u.observerId) ?? 0) + (perUnit[i] as number)),
+  );
+  let best: string | null = null;
+  let bestCount = 0;
+  for (const [observerId, n] of perObserver) {
+    if (n > bestCount || (n === bestCount && best !== null && observerId < best)) {
+      best = observerId;
+      bestCount = n;
+    }
+  }
+  return best;
+}
+
+const yieldToServer = () => new Promise<void>((resolve) => setImmediate(resolve));
+
+/**
+ * Recomputes every k and the whole stored series from the accepted counts,
+ * with the coordinator's settings. Everything is computed in memory from one
+ * consistent read; the result replaces the k and series tables in one short
+ * write transaction, so readers see the old series until the new one is
+ * complete. Days refreshed incrementally meanwhile are refreshed again after
+ * the write, so no review decision taken during the run is lost.
+ */
+export async function runFullRecompute({
+  onProgress = () => undefined,
+  settings: given,
+  refitK = true,
+}: {
+  onProgress?: Progress;
+  settings?: KSettings;
+  /** false: keep the stored k coefficients and rebuild only the series from them. */
+  refitK?: boolean;
+} = {}): Promise<RecomputeSummary> {
+  const timingsMs: Record<string, number> = {};
+  let mark = performance.now();
+  const lap = (label: string) => {
+    const now = performance.now();
+    timingsMs[label] = Math.round((now - mark) * 10) / 10;
+    mark = now;
+  };
+  const dirty = watchDirtyDays();
+  try {
+    const settings = given ?? (await getKSettings());
+    await onProgress(0.02, "Reading accepted counts");
+    const { counts, units, observerOfUnit, labelOf } = await loadAcceptedCounts();
+    lap("read");
+
+    const notes: string[] = [];
+    const fitted = refitK
+      ? await fitAllK({ counts, units, labelOf, settings, notes, onProgress })
+      : {
+          fits: [] as KFit[],
+          kOfRow: await resolveStoredK({ counts, units }),
+          periods: 0,
+          referenceLabel: () => "",
+        };
+    lap("k");
+
+    await onProgress(0.78, "Building the daily, monthly and yearly series");
+    const series = computeNetworkSeries({ counts, kOfRow: fitted.kOfRow, observerOfUnit });
+    lap("series");
+
+    await onProgress(0.88, "Writing the new series");
+    const kRows = fitted.fits.map((fit) => {
+      const period = describePeriod({ index: fit.periodIndex, kind: settings.periodKind });
+      const unit = units[fit.unit]!;
+      return [
+        crypto.randomUUID(),
+        unit.observerId,
+        unit.instrumentId,
+        period.start,
+        period.end,
+        fit.k,
+        fit.sigma,
+        fit.commonDays,
+        settings.method,
+        settings.periodKind,
+        fitted.referenceLabel(fit.role),
+      ];
+    });
+    const tx = await getDb().$client.transaction("write");
+    try {
+      if (refitK) {
+        await tx.execute("DELETE FROM k_coefficients");
+        await insertRows({
+          tx,
+          table: "k_coefficients",
+          columns: [
+            "id",
+            "observer_id",
+            "instrument_id",
+            "period_start",
+            "period_end",
+            "k",
+            "sigma",
+            "common_days",
+            "method",
+            "period_kind",
+            "reference",
+          ],
+          rows: kRows,
+        });
+      }
+      await tx.execute("DELETE FROM series_daily");
+      await insertRows({
+        tx,
+        table: "series_daily",
+        columns: DAILY_COLUMNS,
+        rows: series.daily.map(dailyValues),
+      });
+      await tx.execute("DELETE FROM series_monthly");
+      await insertRows({
+        tx,
+        table: "series_monthly",
+        columns: ["month", "hemisphere", "days", "sum_of_daily_means", "mean", "smoothed"],
+        rows: series.monthly.map((m) => [
+          m.month,
+          m.hemisphere,
+          m.days,
+          m.sumOfDailyMeans,
+          m.mean,
+          m.smoothed,
+        ]),
+      });
+      await tx.execute("DELETE FROM series_yearly");
+      await insertRows({
+        tx,
+        table: "series_yearly",
+        columns: ["year", "hemisphere", "days", "mean"],
+        rows: series.yearly.map((y) => [y.year, y.hemisphere, y.days, y.mean]),
+      });
+      await tx.execute(bumpSeriesRevisionStatement());
+      await tx.commit();
+    } catch (error) {
+      await tx.rollback();
+      throw error;
+    } finally {
+      tx.close();
+    }
+    lap("write");
+
+    const dirtyDays = dirty.stop();
+    if (dirtyDays.length > 0) {
+      await onProgress(0.97, `Catching up ${dirtyDays.length} days reviewed during the recompute`);
+      await refreshSeriesForDays({ days: dirtyDays });
+      notes.push(
+        `${dirtyDays.length} days reviewed during the recompute were brought up to date afterwards.`,
+      );
+    }
+    lap("catch-up");
+
+    return {
+      observations: counts.length,
+      units: units.length,
+      periods: fitted.periods,
+      kCoefficients: kRows.length,
+      days: series.daily.filter((d) => d.hemisphere === "all").length,
+      months: series.monthly.filter((m) => m.hemisphere === "all").length,
+      notes,
+      timingsMs,
+    };
+  } finally {
+    dirty.stop();
+  }
+}
+
+/** Fits every unit's k for every period, and the k that scales each count. */
+async function fitAllK({
+  counts,
+  units,
+  labelOf,
+  settings,
+  notes,
+  onProgress,
+}: {
+  counts: AcceptedCounts;
+  units: KUnit[];
+  labelOf: (unit: number) => string;
+  settings: KSettings;
+  notes: string[];
+  onProgress: Progress;
+}): Promise<{
+  fits: KFit[];
+  kOfRow: Float64Array;
+  periods: number;
+  referenceLabel: (role: KFit["role"]) => string;
+}> {
+  let reference: KReference;
+  let referenceLabel: (role: KFit["role"]) => string;
+  if (settings.referenceSeriesId === NETWORK_REFERENCE) {
+    const pilotObserverId = settings.pilotObserverId ?? findBusiestObserver({ counts, units });
+    reference = { kind: "network", pilotObserverId, pilotK: settings.pilotK };
+    referenceLabel = (role) =>
+      role === "pilot"
+        ? K_REFERENCE.pilot
+        : role === "stand-in pilot"
+          ? K_REFERENCE.standIn
+          : K_REFERENCE.network;
+  } else {
+    const series = await getReferenceSeries({ seriesId: settings.referenceSeriesId });
+    if (!series)
+      throw new Error("The chosen reference series no longer exists; choose another in the k settings.");
+    const values = await loadReferenceValues({ seriesId: series.id });
+    reference = { kind: "series", valueOfDay: (dayNumber) => values.get(dayNumber) };
+    referenceLabel = () => K_REFERENCE.series(series.id);
+  }
+  await onProgress(0.15, "Fitting k coefficients");
+  const periods = sliceByKey({ counts, keyOf: (day) => findPeriodIndex({ day, kind: settings.periodKind }) });
+  const fitPeriod = (period: (typeof periods)[number], anchorK: Float64Array) =>
+    fitPeriodK({
+      counts,
+      from: period.from,
+      to: period.to,
+      units,
+      periodIndex: period.key,
+      method: settings.method,
+      minCommonDays: settings.minCommonDays,
+      reference,
+      anchorK,
+    });
+  const results: Array<ReturnType<typeof fitPeriod>> = [];
+  const anchorK = new Float64Array(units.length).fill(Number.NaN);
+  let lastReported = performance.now();
+  for (const [position, period] of periods.entries()) {
+    const result = fitPeriod(period, anchorK);
+    results.push(result);
+    for (const fit of result.fits) anchorK[fit.unit] = fit.k;
+    if (performance.now() - lastReported > 250) {
+      const label = describePeriod({ index: period.key, kind: settings.periodKind }).label;
+      await onProgress(0.15 + (0.6 * (position + 1)) / periods.length, `Fitting k coefficients (${label})`);
+      lastReported = performance.now();
+    } else {
+      await yieldToServer();
+    }
+  }
+  // A stand-in with no earlier k (the pilot joined later than others) was
+  // held at the pilot's k, an arbitrary scale. Fit those periods again,
+  // latest first, with the stand-in held at its k of the nearest later
+  // period, so the whole series shares the pilot's scale.
+  const laterK = new Float64Array(units.length).fill(Number.NaN);
+  for (let position = periods.length - 1; position >= 0; position--) {
+    const result = results[position]!;
+    if (result.standIn && !result.standIn.anchored && laterK.some(Number.isFinite)) {
+      results[position] = fitPeriod(periods[position]!, laterK);
+      await yieldToServer();
+    }
+    for (const fit of results[position]!.fits) laterK[fit.unit] = fit.k;
+  }
+  const fits: KFit[] = [];
+  for (const [position, result] of results.entries()) {
+    fits.push(...result.fits);
+    const label = describePeriod({ index: periods[position]!.key, kind: settings.periodKind }).label;
+    if (result.standIn) {
+      notes.push(
+        `${label}: the pilot had too few common days; ${labelOf(result.standIn.unit)} stood in, held at k = ${result.standIn.k.toFixed(3)}${result.standIn.anchored ? " from a neighbouring period" : " (no neighbouring k: the scale of this period is that observer's)"}.`,
+      );
+    }
+    if (result.unfitted)
+      notes.push(
+        `${label}: no observer reached ${settings.minCommonDays} common days; no k for this period.`,
+      );
+  }
+  const kOf = buildKLookup({ fits, unitCount: units.length });
+  const kOfRow = new Float64Array(counts.length);
+  for (const period of periods) {
+    for (let i = period.from; i < period.to; i++) kOfRow[i] = kOf(counts.unit[i] as number, period.key);
+  }
+  return { fits, kOfRow, periods: periods.length, referenceLabel };
+}
+
+/** The k of every count from the stored coefficients (no refit). */
+async function resolveStoredK({
+  counts,
+  units,
+}: {
+  counts: AcceptedCounts;
+  units: KUnit[];
+}): Promise<Float64Array> {
+  const result = await getDb().$client.execute(
+    "SELECT observer_id AS observerId, instrument_id AS instrumentId, period_start AS periodStart, period_end AS periodEnd, k, created_at AS computedAt FROM k_coefficients",
+  );
+  const resolve = buildStoredKResolver(
+    result.rows.map((r) => ({
+      observerId: String(r.observerId),
+      instrumentId: r.instrumentId === null ? null : String(r.instrumentId),
+      periodStart: String(r.periodStart),
+      periodEnd: String(r.periodEnd),
+      k: Number(r.k),
+      computedAt: Number(r.computedAt),
+    })),
+  );
+  const kOfRow = new Float64Array(counts.length);
+  let day = "";
+  let dayNumber = Number.NaN;
+  for (let i = 0; i < counts.length; i++) {
+    if (counts.dayNumber[i] !== dayNumber) {
+      dayNumber = counts.dayNumber[i] as number;
+      day = formatDayNumber(dayNumber);
+    }
+    const unit = units[counts.unit[i] as number]!;
+    kOfRow[i] = resolve({ observerId: unit.observerId, instrumentId: unit.instrumentId, day });
+  }
+  return kOfRow;
+}
+
+// ---------------------------------------------------------------------------
+// The background job
+// ---------------------------------------------------------------------------
+
+type Runner = { jobId: string | null; starting: Promise<unknown> };
+const runner = globalThis as unknown as { __heliotallyRecomputeRunner?: Runner };
+
+function describeSummary(summary: RecomputeSummary): string {
+  const main = `Recomputed ${summary.kCoefficients} k coefficients over ${summary.periods} periods and ${summary.days} days from ${summary.observations} accepted counts.`;
+  return summary.notes.length > 0
+    ? `${main} ${summary.notes.slice(0, 5).join(" ")}${summary.notes.length > 5 ? ` (+${summary.notes.length - 5} more notes)` : ""}`
+    : main;
+}
+
+/**
+ * Starts a full recompute in the background of this server process and
+ * returns its job at once; the coordinator follows it through
+ * GET /api/v1/jobs/[id]. Only one runs at a time: asking again while one is
+ * queued or running returns that one. A job left "running" by a server that
+ * stopped is marked failed, so it never blocks the next one.
+ */
+export async function startRecomputeJob({
+  requestedByUserId,
+}: {
+  requestedByUserId: string;
+}): Promise<{ job: JobView; started: boolean }> {
+  const state = (runner.__heliotallyRecomputeRunner ??= { jobId: null, starting: Promise.resolve() });
+  // Starts are taken one at a time in this process, so two quick clicks
+  // cannot both find no job running and start two.
+  const next = state.starting.then(() => startExclusive({ state, requestedByUserId }));
+  state.starting = next.catch(() => undefined);
+  return next;
+}
+
+async function startExclusive({ state, requestedByUserId }: { state: Runner; requestedByUserId: string }) {
+  const active = await findActiveJob({ kind: RECOMPUTE_JOB_KIND });
+  if (active) {
+    if (state.jobId === active.id) return { job: active, started: false };
+    await finishJob({
+      jobId: active.id,
+      status: "failed",
+      message: "Interrupted: the server stopped before the recompute finished.",
+    });
+  }
+  const job = await createJob({ kind: RECOMPUTE_JOB_KIND, requestedByUserId });
+  state.jobId = job.id;
+  void runRecomputeJob({ jobId: job.id }).finally(() => {
+    if (state.jobId === job.id) state.jobId = null;
+  });
+  return { job, started: true };
+}
+
+/** Runs one queued recompute job to the end; exported so tests can await it. */
+export async function runRecomputeJob({ jobId }: { jobId: string }): Promise<void> {
+  try {
+    // Let the request that started the job answer first.
+    await yieldToServer();
+    await markJobRunning({ jobId });
+    const summary = await runFullRecompute({
+      onProgress: (progress, message) => reportJobProgress({ jobId, progress, message }),
+    });
+    await finishJob({ jobId, status: "done", message: describeSummary(summary) });
+  } catch (error) {
+    console.error("Full recompute failed", error);
+    const message = error instanceof Error ? error.message : "Unknown error";
+    await finishJob({ jobId, status: "failed", message: `The recompute failed: ${message}` }).catch(
+      () => undefined,
+    );
+  }
+}
+
+/** Waits for the job this process is running (tests, the seed script). */
+export async function waitForRecompute({
+  jobId,
+  timeoutMs = 60_000,
+}: {
+  jobId: string;
+  timeoutMs?: number;
+}): Promise<void> {
+  const started = Date.now();
+  const state = runner.__heliotallyRecomputeRunner;
+  while (state?.jobId === jobId && Date.now() - started < timeoutMs) {
+    await new Promise((resolve) => setTimeout(resolve, 10));
+  }
+}

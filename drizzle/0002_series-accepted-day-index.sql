@@ -1,0 +1,1 @@
+CREATE INDEX `observations_accepted_day_idx` ON `observations` (`ut_date`,`instrument_id`,`groups`,`spots`,`north_groups`,`north_spots`,`south_groups`,`south_spots`) WHERE status = 'accepted';

@@ -1,0 +1,311 @@
+/**
+ * The stored network series (PRODUCT.md, "Methods"): per UT day the mean of
+ * k_i(10g_i + s_i) over the day's observers with its count and spread, the
+ * monthly mean over days with data, the 13-month smoothed value and the
+ * yearly mean, each for the whole disk ("all") and for each hemisphere.
+ *
+ * Both paths that fill the tables use these functions: the full recompute
+ * (every day at once, from typed arrays) and the incremental refresh after a
+ * review decision (a few days, from database rows). Sharing them is what
+ * keeps an incrementally updated archive equal to a recomputed one.
+ */
+
+import {
+  EMPTY_SUMS,
+  formatDayNumber,
+  smoothed13,
+  summariseSums,
+  type RunningSums,
+} from "@/lib/counts/series";
+
+import { NO_SPLIT, sliceByKey, type AcceptedCounts } from "./accepted-counts";
+
+/** The whole disk, or one hemisphere (a group belongs to the hemisphere of its centre). */
+export type Hemisphere = "all" | "N" | "S";
+export const SERIES_HEMISPHERES: readonly Hemisphere[] = ["all", "N", "S"];
+
+export type DailyRow = {
+  day: string;
+  hemisphere: Hemisphere;
+  observers: number;
+  sum: number;
+  sumSquares: number;
+  mean: number;
+  sd: number | null;
+};
+
+export type MonthlyRow = {
+  month: string;
+  hemisphere: Hemisphere;
+  days: number;
+  sumOfDailyMeans: number;
+  mean: number;
+  smoothed: number | null;
+};
+
+export type YearlyRow = { year: number; hemisphere: Hemisphere; days: number; mean: number };
+
+/** One observer's scaled value for a day; north/south are null without a split. */
+export type ObserverDayValue = { total: number; north: number | null; south: number | null };
+
+/** One accepted count with the k that scales it, as the incremental path reads it. */
+export type ScaledCount = {
+  observerKey: string;
+  k: number;
+  raw: number;
+  northRaw: number | null;
+  southRaw: number | null;
+};
+
+/**
+ * An observer who sends two accepted counts for one day (two instruments, a
+ * corrected re-count) is one observer that day: their scaled values are
+ * averaged first, so the day's `observers` is a count of people and no one
+ * weighs double. Order of first appearance is kept.
+ */
+export function combineObserverCounts(counts: ReadonlyArray<ScaledCount>): ObserverDayValue[] {
+  const byObserver = new Map<
+    string,
+    { total: number; n: number; north: number; south: number; nSplit: number }
+  >();
+  for (const count of counts) {
+    const entry = byObserver.get(count.observerKey) ?? { total: 0, n: 0, north: 0, south: 0, nSplit: 0 };
+    entry.total += count.k * count.raw;
+    entry.n += 1;
+    if (count.northRaw !== null && count.southRaw !== null) {
+      entry.north += count.k * count.northRaw;
+      entry.south += count.k * count.southRaw;
+      entry.nSplit += 1;
+    }
+    byObserver.set(count.observerKey, entry);
+  }
+  return [...byObserver.values()].map((e) => ({
+    total: e.total / e.n,
+    north: e.nSplit > 0 ? e.north / e.nSplit : null,
+    south: e.nSplit > 0 ? e.south / e.nSplit : null,
+  }));
+}
+
+/** A day's three rows (whole disk, north, south) from its observers' values; hemispheres without a split are left out. */
+export function summariseDay({
+  day,
+  values,
+}: {
+  day: string;
+  values: ReadonlyArray<ObserverDayValue>;
+}): DailyRow[] {
+  // Plain accumulators rather than addToSums: the full recompute runs this
+  // for every observer of every day (a million times), and the arithmetic
+  // is the same.
+  const total: RunningSums = { ...EMPTY_SUMS };
+  const north: RunningSums = { ...EMPTY_SUMS };
+  const south: RunningSums = { ...EMPTY_SUMS };
+  for (const value of values) {
+    accumulate(total, value.total);
+    if (value.north !== null && value.south !== null) {
+      accumulate(north, value.north);
+      accumulate(south, value.south);
+    }
+  }
+  const rows: DailyRow[] = [];
+  for (const [hemisphere, sums] of [
+    ["all", total],
+    ["N", north],
+    ["S", south],
+  ] as const) {
+    const summary = summariseSums(sums);
+    if (!summary) continue;
+    rows.push({
+      day,
+      hemisphere,
+      observers: sums.n,
+      sum: sums.sum,
+      sumSquares: sums.sumSquares,
+      mean: summary.relativeNumber,
+      sd: summary.sd,
+    });
+  }
+  return rows;
+}
+
+function accumulate(sums: RunningSums, value: number): void {
+  sums.n += 1;
+  sums.sum += value;
+  sums.sumSquares += value * value;
+}
+
+/** A month's row from its days' means (in day order); null when no day has data. */
+export function summariseMonth({
+  month,
+  hemisphere,
+  dailyMeans,
+}: {
+  month: string;
+  hemisphere: Hemisphere;
+  dailyMeans: ReadonlyArray<number>;
+}): Omit<MonthlyRow, "smoothed"> | null {
+  if (dailyMeans.length === 0) return null;
+  let sum = 0;
+  for (const mean of dailyMeans) sum += mean;
+  return { month, hemisphere, days: dailyMeans.length, sumOfDailyMeans: sum, mean: sum / dailyMeans.length };
+}
+
+/**
+ * The yearly mean over all days of the year with data (not the mean of the
+ * monthly means, which would weigh a thin month like a full one), from the
+ * year's monthly rows.
+ */
+export function summariseYear({
+  year,
+  hemisphere,
+  months,
+}: {
+  year: number;
+  hemisphere: Hemisphere;
+  months: ReadonlyArray<{ days: number; sumOfDailyMeans: number }>;
+}): YearlyRow | null {
+  let days = 0;
+  let sum = 0;
+  for (const month of months) {
+    days += month.days;
+    sum += month.sumOfDailyMeans;
+  }
+  return days > 0 ? { year, hemisphere, days, mean: sum / days } : null;
+}
+
+/**
+ * The 13-month smoothed value of one month from the monthly means around it
+ * (smoothed13 of lib/counts/series.ts on the 13-month window), or null when
+ * any of the 13 months has no mean.
+ */
+export function computeSmoothedAt({
+  monthIndex,
+  meanOfMonth,
+}: {
+  monthIndex: number;
+  meanOfMonth: (monthIndex: number) => number | null | undefined;
+}): number | null {
+  const window: Array<number | null> = [];
+  for (let offset = -6; offset <= 6; offset++) window.push(meanOfMonth(monthIndex + offset) ?? null);
+  return smoothed13(window)[6] ?? null;
+}
+
+/**
+ * Every daily, monthly and yearly row from all accepted counts at once.
+ * `kOfRow[i]` is the k that scales row i; `observerOfUnit` tells which
+ * observer each unit belongs to (for one value per observer per day).
+ */
+export function computeNetworkSeries({
+  counts,
+  kOfRow,
+  observerOfUnit,
+}: {
+  counts: AcceptedCounts;
+  kOfRow: Float64Array;
+  observerOfUnit: Int32Array;
+}): { daily: DailyRow[]; monthly: MonthlyRow[]; yearly: YearlyRow[] } {
+  const daily: DailyRow[] = [];
+  // Per-observer scratch, reset through the list of observers seen each day.
+  const observerCount = observerOfUnit.reduce((max, o) => Math.max(max, o + 1), 0);
+  const slotOfObserver = new Int32Array(observerCount).fill(-1);
+  const seen: number[] = [];
+  // Entries are reused from day to day: a million short-lived objects would
+  // cost more in garbage collection than the arithmetic.
+  const entries: Array<{ total: number; n: number; north: number; south: number; nSplit: number }> = [];
+  const dayValues: ObserverDayValue[] = [];
+
+  for (const { key: dayNumber, from, to } of sliceByKey({ counts, keyOf: (d) => d })) {
+    seen.length = 0;
+    for (let i = from; i < to; i++) {
+      const observer = observerOfUnit[counts.unit[i] as number] as number;
+      let slot = slotOfObserver[observer] as number;
+      if (slot < 0) {
+        slot = seen.length;
+        slotOfObserver[observer] = slot;
+        seen.push(observer);
+        const reused = entries[slot];
+        if (reused) {
+          reused.total = reused.n = reused.north = reused.south = reused.nSplit = 0;
+        } else {
+          entries.push({ total: 0, n: 0, north: 0, south: 0, nSplit: 0 });
+        }
+      }
+      const entry = entries[slot]!;
+      const k = kOfRow[i] as number;
+      entry.total += k * (counts.raw[i] as number);
+      entry.n += 1;
+      const north = counts.northRaw[i] as number;
+      const south = counts.southRaw[i] as number;
+      if (north !== NO_SPLIT && south !== NO_SPLIT) {
+        entry.north += k * north;
+        entry.south += k * south;
+        entry.nSplit += 1;
+      }
+    }
+    for (const observer of seen) slotOfObserver[observer] = -1;
+    dayValues.length = seen.length;
+    for (let slot = 0; slot < seen.length; slot++) {
+      const e = entries[slot]!;
+      const value = (dayValues[slot] ??= { total: 0, north: null, south: null });
+      value.total = e.total / e.n;
+      value.north = e.nSplit > 0 ? e.north / e.nSplit : null;
+      value.south = e.nSplit > 0 ? e.south / e.nSplit : null;
+    }
+    for (const row of summariseDay({ day: formatDayNumber(dayNumber), values: dayValues })) daily.push(row);
+  }
+  const monthly = summariseMonthsFromDays(daily);
+  return { daily, monthly, yearly: summariseYearsFromMonths(monthly) };
+}
+
+/** Monthly rows (with smoothed values) from daily rows in day order. */
+export function summariseMonthsFromDays(daily: ReadonlyArray<DailyRow>): MonthlyRow[] {
+  const meansByKey = new Map<string, number[]>();
+  for (const row of daily) {
+    const key = `${row.hemisphere}|${row.day.slice(0, 7)}`;
+    const list = meansByKey.get(key);
+    if (list) list.push(row.mean);
+    else meansByKey.set(key, [row.mean]);
+  }
+  const monthly: MonthlyRow[] = [];
+  const meanByHemisphere = new Map<Hemisphere, Map<number, number>>();
+  for (const [key, dailyMeans] of meansByKey) {
+    const [hemisphere, month] = key.split("|") as [Hemisphere, string];
+    const row = summariseMonth({ month, hemisphere, dailyMeans });
+    if (!row) continue;
+    monthly.push({ ...row, smoothed: null });
+    const index = toMonthIndexOf(month);
+    let byMonth = meanByHemisphere.get(hemisphere);
+    if (!byMonth) meanByHemisphere.set(hemisphere, (byMonth = new Map()));
+    byMonth.set(index, row.mean);
+  }
+  for (const row of monthly) {
+    const byMonth = meanByHemisphere.get(row.hemisphere)!;
+    const index = toMonthIndexOf(row.month);
+    row.smoothed = computeSmoothedAt({ monthIndex: index, meanOfMonth: (m) => byMonth.get(m) });
+  }
+  const order: Record<Hemisphere, number> = { all: 0, N: 1, S: 2 };
+  return monthly.sort((a, b) => order[a.hemisphere] - order[b.hemisphere] || a.month.localeCompare(b.month));
+}
+
+/** Yearly rows from monthly rows. */
+export function summariseYearsFromMonths(monthly: ReadonlyArray<MonthlyRow>): YearlyRow[] {
+  const byKey = new Map<string, MonthlyRow[]>();
+  for (const row of monthly) {
+    const key = `${row.hemisphere}|${row.month.slice(0, 4)}`;
+    const list = byKey.get(key);
+    if (list) list.push(row);
+    else byKey.set(key, [row]);
+  }
+  const yearly: YearlyRow[] = [];
+  for (const [key, months] of byKey) {
+    const [hemisphere, year] = key.split("|") as [Hemisphere, string];
+    const row = summariseYear({ year: Number(year), hemisphere, months });
+    if (row) yearly.push(row);
+  }
+  return yearly;
+}
+
+/** Month index of a "YYYY-MM" month or "YYYY-MM-DD" day. */
+export function toMonthIndexOf(text: string): number {
+  return Number(text.slice(0, 4)) * 12 + Number(text.slice(5, 7)) - 1;
+}

@@ -1,0 +1,543 @@
+/**
+ * Benchmark of the stored network series (npm run bench -- series). In
+ * temporary databases it generates invented archives (1,000,000 accepted
+ * counts from 300 observers over 25 years, and a small one of 10,000), then
+ * reports:
+ *  (a) a full recompute of every k and every series, against one bare SQL
+ *      scan averaging 10g + s per day with the same client on the same table;
+ *  (b) accepting one count and refreshing the series (refreshSeriesForDays)
+ *      on the archives of 10,000 and 1,000,000 counts;
+ *  (c) an Archive table page (50 rows, sorted, filtered) through the real
+ *      route handler in a node:http server on 127.0.0.1, loaded by 32
+ *      concurrent clients from a worker thread, bounded in requests and time.
+ * Prints one line per figure and a final JSON line.
+ */
+import { mkdtempSync, rmSync } from "node:fs";
+import { createServer, type IncomingMessage, type ServerResponse } from "node:http";
+import type { AddressInfo } from "node:net";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { performance } from "node:perf_hooks";
+import { Worker } from "node:worker_threads";
+
+import { createRandom, drawCount } from "../unit/counts/helpers";
+
+const folder = mkdtempSync(path.join(tmpdir(), "heliotally-series-bench-"));
+process.env.NEXTAUTH_SECRET = "series-bench-secret-series-bench-secret";
+process.env.NEXTAUTH_URL = "http://127.0.0.1:3999";
+process.env.HELIOTALLY_DEMO = "false";
+
+const figures: Record<string, unknown> = {};
+const report = (label: string, value: number, unit = "ms") => {
+  console.log(`${label.padEnd(58)} ${value.toFixed(1).padStart(10)} ${unit}`);
+  figures[label] = Math.round(value * 10) / 10;
+};
+
+const median = (values: number[]) => quantile(values, 0.5);
+function quantile(values: number[], q: number): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  if (sorted.length === 0) return Number.NaN;
+  const position = (sorted.length - 1) * q;
+  const low = Math.floor(position);
+  const high = Math.ceil(position);
+  return sorted[low]! + (sorted[high]! - sorted[low]!) * (position - low);
+}
+
+async function timeIt<T>(run: () => Promise<T>): Promise<{ result: T; ms: number }> {
+  const start = performance.now();
+  const result = await run();
+  return { result, ms: performance.now() - start };
+}
+
+// ---------------------------------------------------------------------------
+// Invented archives
+// ---------------------------------------------------------------------------
+
+type ArchiveSpec = {
+  name: string;
+  observations: number;
+  observers: number;
+  years: number;
+  submittedEvery: number;
+};
+
+/** Opens (creating and migrating) a temporary database and makes it the one getDb() answers for. */
+async function openArchive(spec: ArchiveSpec) {
+  process.env.DATABASE_URL = `file:${path.join(folder, `${spec.name}.db`)}`;
+  const { resetEnvCache } = await import("@/lib/env");
+  resetEnvCache();
+  const { getDb } = await import("@/db/client");
+  const { prepareDatabase } = await import("@/db/prepare");
+  const db = getDb();
+  await prepareDatabase({ db, url: process.env.DATABASE_URL });
+  return db;
+}
+
+/**
+ * Writes the archive: people and instruments, then the counts in big
+ * multi-row INSERTs inside large transactions, with the secondary indexes
+ * of observations dropped during the load and built again after it (the
+ * usual way to bulk-load SQLite; building an index once is far cheaper than
+ * keeping it sorted through a million inserts).
+ */
+async function fillArchive(
+  spec: ArchiveSpec,
+): Promise<{ submitted: number; loadMs: number; indexMs: number }> {
+  const { getDb } = await import("@/db/client");
+  const client = getDb().$client;
+  const random = createRandom(20_251_202 + spec.observations);
+
+  const observerIds: string[] = [];
+  const instrumentIds: string[] = [];
+  const people: string[] = [];
+  for (let i = 0; i < spec.observers; i++) {
+    const userId = crypto.randomUUID();
+    observerIds.push(crypto.randomUUID());
+    instrumentIds.push(crypto.randomUUID());
+    people.push(
+      `INSERT INTO users (id, name, email, role) VALUES ('${userId}', 'Bench observer ${i}', 'bench${i}@example.test', 'observer')`,
+      `INSERT INTO observers (id, user_id, display_name, code) VALUES ('${observerIds[i]}', '${userId}', 'Bench observer ${i}', 'HT-B${String(i).padStart(4, "0")}')`,
+      `INSERT INTO instruments (id, observer_id, name, kind) VALUES ('${instrumentIds[i]}', '${observerIds[i]}', 'Bench instrument', 'pinhole')`,
+    );
+  }
+  await client.batch(people, "write");
+
+  // Each observer is active for a span (observer 0 for the whole run) and
+  // clouded out on some days; a third give the hemisphere split.
+  const firstDay = Date.UTC(2000, 0, 1) / 86_400_000;
+  const dayCount = Math.round(spec.years * 365.25);
+  const trueK = Float64Array.from({ length: spec.observers }, (_, i) => (i === 0 ? 1 : 0.6 + 0.8 * random()));
+  const spanStart = new Int32Array(spec.observers);
+  const spanEnd = new Int32Array(spec.observers);
+  const splits = new Uint8Array(spec.observers);
+  let activeDays = 0;
+  for (let i = 0; i < spec.observers; i++) {
+    const length = i === 0 ? dayCount : Math.floor(dayCount * (0.3 + 0.7 * random()));
+    spanStart[i] = i === 0 ? 0 : Math.floor(random() * (dayCount - length + 1));
+    spanEnd[i] = spanStart[i]! + length;
+    splits[i] = random() < 1 / 3 ? 1 : 0;
+    activeDays += length;
+  }
+  // Candidates a few percent above the target, then exactly the target by
+  // selection sampling (each candidate kept with probability needed/left).
+  const clear = Math.min(1, (1.03 * spec.observations) / activeDays);
+  const candidateObserver = new Int32Array(Math.ceil(activeDays * clear * 1.1) + 1000);
+  const candidateDay = new Int32Array(candidateObserver.length);
+  let candidates = 0;
+  for (let d = 0; d < dayCount; d++) {
+    for (let i = 0; i < spec.observers; i++) {
+      if (d < spanStart[i]! || d >= spanEnd[i]! || random() >= clear) continue;
+      candidateObserver[candidates] = i;
+      candidateDay[candidates] = d;
+      candidates++;
+    }
+  }
+
+  const indexes = await client.execute(
+    "SELECT name, sql FROM sqlite_master WHERE type = 'index' AND tbl_name = 'observations' AND sql IS NOT NULL",
+  );
+  for (const row of indexes.rows) await client.execute(`DROP INDEX ${String(row.name)}`);
+  await client.execute("PRAGMA synchronous = OFF");
+
+  // The counts travel as compact JSON arrays of numbers, 50,000 per
+  // statement, and SQLite expands each into a full row (ids, dates, texts)
+  // itself: parsing a million long VALUES tuples costs several times more.
+  await client.execute(
+    "CREATE TABLE bench_units (n INTEGER PRIMARY KEY, observer_id TEXT NOT NULL, instrument_id TEXT NOT NULL)",
+  );
+  await client.batch(
+    observerIds.map((id, n) => ({
+      sql: "INSERT INTO bench_units VALUES (?, ?, ?)",
+      args: [n, id, instrumentIds[n]!],
+    })),
+    "write",
+  );
+  const EXPAND = `
+    INSERT INTO observations (id, observer_id, instrument_id, observed_at, ut_date, seeing, groups, spots,
+      north_groups, north_spots, south_groups, south_spots, status, source, created_at, updated_at)
+    SELECT lower(substr(h, 1, 8) || '-' || substr(h, 9, 4) || '-4' || substr(h, 14, 3) || '-a' || substr(h, 18, 3) || '-' || substr(h, 21, 12)),
+           u.observer_id, u.instrument_id, (${firstDay} + r ->> 1) * 86400000 + 36000000,
+           date((${firstDay} + r ->> 1) * 86400, 'unixepoch'), 3, r ->> 2, r ->> 3, r ->> 4, r ->> 5, r ->> 6, r ->> 7,
+           CASE r ->> 8 WHEN 1 THEN 'submitted' ELSE 'accepted' END, 'import',
+           (${firstDay} + r ->> 1) * 86400000 + 40000000, (${firstDay} + r ->> 1) * 86400000 + 40000000
+    FROM (SELECT hex(randomblob(16)) AS h, value AS r FROM json_each(?)) JOIN bench_units u ON u.n = r ->> 0`;
+  const loadStart = performance.now();
+  const ROWS_PER_INSERT = 50_000;
+  let needed = spec.observations;
+  let written = 0;
+  let submitted = 0;
+  let rows: Array<Array<number | null>> = [];
+  const tx = await client.transaction("write");
+  for (let c = 0; c < candidates && needed > 0; c++) {
+    if (random() * (candidates - c) >= needed) continue;
+    needed--;
+    const i = candidateObserver[c]!;
+    const dayIndex = candidateDay[c]!;
+    const cycle = Math.sin((Math.PI * dayIndex) / (11 * 365.25));
+    const activity = 8 + 170 * cycle * cycle * (1 + 0.2 * Math.sin((2 * Math.PI * dayIndex) / 27));
+    const drawn = drawCount({ mean: activity / trueK[i]!, noise: "poisson", random });
+    const raw = drawn < 11 ? 0 : drawn;
+    const groups = raw === 0 ? 0 : Math.max(1, Math.floor(raw / 18));
+    const spots = raw - 10 * groups;
+    const northGroups = splits[i] === 1 ? Math.round(groups * 0.55) : null;
+    const northSpots = splits[i] === 1 ? Math.round(spots * 0.55) : null;
+    const isSubmitted = written % spec.submittedEvery === spec.submittedEvery - 1 ? 1 : 0;
+    submitted += isSubmitted;
+    rows.push([
+      i,
+      dayIndex,
+      groups,
+      spots,
+      northGroups,
+      northSpots,
+      northGroups === null ? null : groups - northGroups,
+      northSpots === null ? null : spots - northSpots,
+      isSubmitted,
+    ]);
+    written++;
+    if (rows.length === ROWS_PER_INSERT || needed === 0) {
+      await tx.execute({ sql: EXPAND, args: [JSON.stringify(rows)] });
+      rows = [];
+    }
+  }
+  await tx.commit();
+  await client.execute("DROP TABLE bench_units");
+  const loadMs = performance.now() - loadStart;
+
+  const indexStart = performance.now();
+  // A 256 MB page cache for the index builds (they sort a million keys each).
+  await client.execute("PRAGMA cache_size = -262144");
+  for (const row of indexes.rows) await client.execute(String(row.sql));
+  await client.execute("PRAGMA synchronous = NORMAL");
+  const indexMs = performance.now() - indexStart;
+  const check = await client.execute(
+    "SELECT count(*) AS n, min(ut_date) AS first, max(id) AS id FROM observations",
+  );
+  const sample = check.rows[0]!;
+  if (written !== spec.observations || Number(sample.n) !== spec.observations) {
+    throw new Error(`Wrote ${written} counts (${String(sample.n)} stored), wanted ${spec.observations}`);
+  }
+  if (
+    !/^20\d\d-\d\d-\d\d$/.test(String(sample.first)) ||
+    !/^[0-9a-f]{8}-[0-9a-f]{4}-4[0-9a-f]{3}-a[0-9a-f]{3}-[0-9a-f]{12}$/.test(String(sample.id))
+  ) {
+    throw new Error(`The generated rows look wrong: ${JSON.stringify(sample)}`);
+  }
+  return { submitted, loadMs, indexMs };
+}
+
+// ---------------------------------------------------------------------------
+// (b) accept one count, refresh its day
+// ---------------------------------------------------------------------------
+
+async function measureAccepts({ label, accepts }: { label: string; accepts: number }) {
+  const { getDb } = await import("@/db/client");
+  const { refreshSeriesForDays } = await import("@/db/queries/series");
+  const client = getDb().$client;
+  const waiting = await client.execute({
+    sql: "SELECT id, ut_date AS day FROM observations WHERE status = 'submitted' ORDER BY created_at LIMIT ?",
+    args: [accepts],
+  });
+  const timings: number[] = [];
+  for (const row of waiting.rows) {
+    const { ms } = await timeIt(async () => {
+      await client.execute({
+        sql: "UPDATE observations SET status = 'accepted', updated_at = ? WHERE id = ?",
+        args: [Date.now(), String(row.id)],
+      });
+      await refreshSeriesForDays({ days: [String(row.day)] });
+    });
+    timings.push(ms);
+  }
+  report(`(b) accept + refresh, ${label}: median`, median(timings));
+  report(`(b) accept + refresh, ${label}: p95`, quantile(timings, 0.95));
+  report(`(b) accepts measured, ${label}`, timings.length, "");
+  return median(timings);
+}
+
+// ---------------------------------------------------------------------------
+// (c) the Archive table page over HTTP
+// ---------------------------------------------------------------------------
+
+/** Runs the real route handler of GET /api/v1/series/[kind] behind node:http. */
+async function startApiServer(): Promise<{ port: number; close: () => Promise<void> }> {
+  const { GET } = await import("@/app/api/v1/series/[kind]/route");
+  const server = createServer((req: IncomingMessage, res: ServerResponse) => {
+    const url = new URL(req.url ?? "/", "http://127.0.0.1");
+    const match = /^\/api\/v1\/series\/([^/]+)$/.exec(url.pathname);
+    if (!match) {
+      res.writeHead(404).end();
+      return;
+    }
+    const headers = new Headers();
+    for (const [key, value] of Object.entries(req.headers))
+      if (typeof value === "string") headers.set(key, value);
+    GET(new Request(url, { headers }), { params: Promise.resolve({ kind: match[1]! }) })
+      .then(async (response) => {
+        res.writeHead(response.status, Object.fromEntries(response.headers));
+        res.end(Buffer.from(await response.arrayBuffer()));
+      })
+      .catch((error: unknown) => {
+        console.error(error);
+        res.writeHead(500).end();
+      });
+  });
+  server.keepAliveTimeout = 30_000;
+  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
+  return {
+    port: (server.address() as AddressInfo).port,
+    close: () => new Promise<void>((resolve) => server.close(() => resolve())),
+  };
+}
+
+/** The load generator: plain JavaScript in a worker thread, so it does not share the server's event loop. */
+const LOAD_GENERATOR = `
+const { parentPort, workerData } = require("node:worker_threads");
+const http = require("node:http");
+const { port, cookie, paths, concurrency, maxRequests, maxMs } = workerData;
+const agent = new http.Agent({ keepAlive: true, maxSockets: concurrency });
+const latencies = [];
+let sent = 0, failed = 0, next = 0;
+const started = Date.now();
+function one() {
+  return new Promise((resolve) => {
+    const path = paths[next++ % paths.length];
+    const t0 = process.hrtime.bigint();
+    const req = http.get({ host: "127.0.0.1", port, path, agent, headers: { cookie } }, (res) => {
+      res.resume();
+      res.on("end", () => {
+        latencies.push(Number(process.hrtime.bigint() - t0) / 1e6);
+        if (res.statusCode !== 200) failed++;
+        resolve();
+      });
+    });
+    req.on("error", () => { failed++; resolve(); });
+  });
+}
+async function client() {
+  while (sent < maxRequests && Date.now() - started < maxMs) { sent++; await one(); }
+}
+Promise.all(Array.from({ length: concurrency }, client)).then(() => {
+  agent.destroy();
+  parentPort.postMessage({ latencies, failed, elapsedMs: Date.now() - started });
+});
+`;
+
+async function runLoad({
+  port,
+  cookie,
+  paths,
+  concurrency = 32,
+  maxRequests = 3_000,
+}: {
+  port: number;
+  cookie: string;
+  paths: string[];
+  concurrency?: number;
+  maxRequests?: number;
+}) {
+  const worker = new Worker(LOAD_GENERATOR, {
+    eval: true,
+    workerData: { port, cookie, paths, concurrency, maxRequests, maxMs: 10_000 },
+  });
+  const result = await new Promise<{ latencies: number[]; failed: number; elapsedMs: number }>(
+    (resolve, reject) => {
+      worker.once("message", resolve);
+      worker.once("error", reject);
+    },
+  );
+  await worker.terminate();
+  return result;
+}
+
+async function measureHttp() {
+  const { getDb } = await import("@/db/client");
+  const { encode } = await import("next-auth/jwt");
+  const client = getDb().$client;
+  const userId = crypto.randomUUID();
+  await client.execute({
+    sql: "INSERT INTO users (id, name, email, role) VALUES (?, 'Bench coordinator', 'bench-coordinator@example.test', 'coordinator')",
+    args: [userId],
+  });
+  const cookie = `next-auth.session-token=${await encode({ token: { sub: userId }, secret: process.env.NEXTAUTH_SECRET! })}`;
+  const server = await startApiServer();
+
+  // A table page as the Archive asks for it: 50 rows, sorted, filtered by a range.
+  const sorts = ["mean:desc", "mean:asc", "observers:desc", "day:asc", "sd:desc"];
+  const ranges = [
+    ["2001-01-01", "2010-12-31"],
+    ["2005-06-01", "2019-05-31"],
+    ["2012-01-01", "2024-12-31"],
+    ["2000-01-01", "2024-12-31"],
+  ];
+  const repeated: string[] = [];
+  for (const [i, sort] of sorts.entries()) {
+    for (const [j, [from, to]] of ranges.entries()) {
+      const hemisphere = ["all", "N", "S"][(i + j) % 3];
+      repeated.push(
+        `/api/v1/series/daily?hemisphere=${hemisphere}&from=${from}&to=${to}&sort=${sort}&page=${1 + ((i * 4 + j) % 5)}&pageSize=50`,
+      );
+    }
+  }
+  // Every request a different page: what a cold cache costs.
+  const distinct = Array.from({ length: 3_000 }, (_, i) => {
+    const [from, to] = ranges[i % ranges.length]!;
+    return `/api/v1/series/daily?hemisphere=all&from=${from}&to=${to}&sort=${sorts[i % sorts.length]}&page=${1 + Math.floor(i / 20)}&pageSize=50`;
+  });
+
+  // Warm-up: the first requests load modules and JIT-compile the handler.
+  await runLoad({ port: server.port, cookie, paths: repeated, concurrency: 4, maxRequests: 200 });
+  // One client at a time: what one request costs the server, without queueing.
+  const alone = await runLoad({
+    port: server.port,
+    cookie,
+    paths: repeated,
+    concurrency: 1,
+    maxRequests: 300,
+  });
+  report("(c) table page, 1 client at a time (cached): p50", quantile(alone.latencies, 0.5));
+  const results: Record<
+    string,
+    { p50: number; p95: number; p99: number; requests: number; failed: number; perSecond: number }
+  > = {};
+  for (const [name, paths] of [
+    ["20 pages repeated", repeated],
+    ["every page different (cache misses)", distinct],
+  ] as const) {
+    const { latencies, failed, elapsedMs } = await runLoad({ port: server.port, cookie, paths });
+    results[name] = {
+      p50: quantile(latencies, 0.5),
+      p95: quantile(latencies, 0.95),
+      p99: quantile(latencies, 0.99),
+      requests: latencies.length,
+      failed,
+      perSecond: (latencies.length / elapsedMs) * 1000,
+    };
+    report(`(c) table page, 32 clients, ${name}: p50`, results[name].p50);
+    report(`(c) table page, 32 clients, ${name}: p95`, results[name].p95);
+    report(
+      `(c) requests / failed / per second, ${name}`,
+      results[name].requests,
+      `/ ${failed} / ${results[name].perSecond.toFixed(0)}`,
+    );
+  }
+  await server.close();
+  return results;
+}
+
+// ---------------------------------------------------------------------------
+
+async function main() {
+  const started = performance.now();
+  const { runFullRecompute } = await import("@/db/queries/recompute");
+  const { DEFAULT_K_SETTINGS } = await import("@/lib/validation/k-settings");
+
+  // Small archive first: 10,000 counts, 30 observers over 2 years.
+  const small: ArchiveSpec = {
+    name: "small",
+    observations: 10_000,
+    observers: 30,
+    years: 2,
+    submittedEvery: 50,
+  };
+  await openArchive(small);
+  await fillArchive(small);
+  await runFullRecompute();
+  const smallMedian = await measureAccepts({ label: "10,000 counts", accepts: 100 });
+  const { getDb } = await import("@/db/client");
+  getDb().$client.close();
+
+  const large: ArchiveSpec = {
+    name: "large",
+    observations: 1_000_000,
+    observers: 300,
+    years: 25,
+    submittedEvery: 5_000,
+  };
+  await openArchive(large);
+  const filled = await fillArchive(large);
+  report("setup: bulk load 1,000,000 counts (not measured work)", filled.loadMs);
+  report("setup: build the observations indexes", filled.indexMs);
+  const client = getDb().$client;
+
+  // (a) One bare SQL scan, as the planner runs it without table statistics,
+  // then the full recompute, then the same scan once ANALYZE has given the
+  // planner statistics (it then reads the covering index of accepted counts).
+  const SCAN =
+    "SELECT ut_date, avg(10 * groups + spots) AS mean FROM observations WHERE status = 'accepted' GROUP BY ut_date";
+  const scans: number[] = [];
+  for (let i = 0; i < 3; i++) scans.push((await timeIt(() => client.execute(SCAN))).ms);
+  const scanMs = median(scans);
+  report("(a) bare scan: mean 10g+s per day (planner, no statistics)", scanMs);
+
+  const recomputes: number[] = [];
+  let summary: Awaited<ReturnType<typeof runFullRecompute>> | null = null;
+  for (let i = 0; i < 2; i++) {
+    const { result, ms } = await timeIt(() => runFullRecompute());
+    recomputes.push(ms);
+    summary = result;
+  }
+  const recomputeMs = Math.min(...recomputes);
+  report("(a) full recompute, yearly k against the network (best of 2)", recomputeMs);
+  for (const [phase, ms] of Object.entries(summary!.timingsMs)) report(`    phase: ${phase}`, ms);
+  const quarterly = await timeIt(() =>
+    runFullRecompute({ settings: { ...DEFAULT_K_SETTINGS, periodKind: "quarter" } }),
+  );
+  report("(a) full recompute, quarterly k against the network", quarterly.ms);
+  await runFullRecompute();
+
+  await client.execute("ANALYZE");
+  const analysedScans: number[] = [];
+  for (let i = 0; i < 3; i++) analysedScans.push((await timeIt(() => client.execute(SCAN))).ms);
+  const analysedScanMs = median(analysedScans);
+  report("(a) bare scan after ANALYZE (covering index)", analysedScanMs);
+  report("(a) recompute ÷ scan (no statistics)", recomputeMs / scanMs, "×");
+  report("(a) recompute ÷ scan (after ANALYZE)", recomputeMs / analysedScanMs, "×");
+
+  const largeMedian = await measureAccepts({ label: "1,000,000 counts", accepts: 100 });
+  const http = await measureHttp();
+  client.close();
+  rmSync(folder, { recursive: true, force: true });
+  report("whole benchmark", (performance.now() - started) / 1000, "s");
+
+  console.log(
+    JSON.stringify({
+      benchmark: "series",
+      observations: large.observations,
+      observers: large.observers,
+      years: large.years,
+      kCoefficients: summary!.kCoefficients,
+      days: summary!.days,
+      scanMs: Math.round(scanMs),
+      scanAfterAnalyzeMs: Math.round(analysedScanMs),
+      recomputeMs: Math.round(recomputeMs),
+      recomputeQuarterlyMs: Math.round(quarterly.ms),
+      recomputePhasesMs: summary!.timingsMs,
+      recomputeOverScan: Math.round((recomputeMs / scanMs) * 100) / 100,
+      recomputeOverAnalysedScan: Math.round((recomputeMs / analysedScanMs) * 100) / 100,
+      acceptMedianMs: {
+        "10000": Math.round(smallMedian * 100) / 100,
+        "1000000": Math.round(largeMedian * 100) / 100,
+      },
+      http: Object.fromEntries(
+        Object.entries(http).map(([name, r]) => [
+          name,
+          {
+            p50: Math.round(r.p50 * 10) / 10,
+            p95: Math.round(r.p95 * 10) / 10,
+            p99: Math.round(r.p99 * 10) / 10,
+            requests: r.requests,
+            failed: r.failed,
+          },
+        ]),
+      ),
+      node: process.version,
+    }),
+  );
+}
+
+main().catch((error: unknown) => {
+  console.error(error);
+  rmSync(folder, { recursive: true, force: true });
+  process.exit(1);
+});

@@ -1,0 +1,3 @@
+export default function Loading() {
+  return <p className="animate-pulse text-sm text-ink-500">Opening the import…</p>;
+}

@@ -7,7 +7,16 @@ import { buildDemoScenario, DEMO_CLASSROOM, DEMO_PASSWORD, DEMO_STAFF } from "@/
 import { makeRandom } from "@/lib/demo/random";
 
 import type { Database } from "./client";
-import { classroomMembers, classrooms, instruments, observations, observers, users } from "./schema";
+import { flagAwaitingReview } from "./queries/review-flags";
+import {
+  classroomMembers,
+  classrooms,
+  classroomSessions,
+  instruments,
+  observations,
+  observers,
+  users,
+} from "./schema";
 
 const CHUNK = 400;
 
@@ -101,16 +110,39 @@ export async function seedDemo(db: Database): Promise<{ observations: number }> 
       await tx.insert(classroomMembers).values({ classroomId: classroom!.id, userId: user!.id, pinHash: pinHashes[i]! });
       observerIds.set(student.key, { observerId: profile!.id, instrumentId: instrument!.id });
     }
+    // The club met on Wednesdays, 10:00–11:00 UT: one class session per
+    // meeting, so each student's demo count belongs to its session.
+    const sessionIdByDay = new Map<string, string>();
+    for (const [week, day] of scenario.classSessions.entries()) {
+      const [session] = await tx
+        .insert(classroomSessions)
+        .values({
+          classroomId: classroom!.id,
+          title: `Week ${week + 1}: class count`,
+          day,
+          opensAt: new Date(`${day}T10:00:00Z`),
+          closesAt: new Date(`${day}T11:00:00Z`),
+          instrumentName: DEMO_CLASSROOM.instrument.name,
+          instrumentKind: DEMO_CLASSROOM.instrument.kind,
+        })
+        .returning();
+      sessionIdByDay.set(day, session!.id);
+    }
+    const studentKeys = new Set(scenario.students.map((s) => s.key));
 
     const rows = scenario.observations.map(({ observerKey, ...o }) => {
       const ids = observerIds.get(observerKey);
       if (!ids) throw new Error(`unknown demo observer ${observerKey}`);
-      return { ...o, ...ids, createdAt: o.observedAt, updatedAt: o.observedAt };
+      const classSessionId = studentKeys.has(observerKey) ? (sessionIdByDay.get(o.utDate) ?? null) : null;
+      return { ...o, ...ids, classSessionId, createdAt: o.observedAt, updatedAt: o.observedAt };
     });
     for (let i = 0; i < rows.length; i += CHUNK) {
       await tx.insert(observations).values(rows.slice(i, i + CHUNK));
     }
     inserted = rows.length;
   });
+  // The demo's waiting counts get the same automatic flags as live arrivals,
+  // so the planted outliers show up flagged on the Review desk.
+  await flagAwaitingReview({ db });
   return { observations: inserted };
 }

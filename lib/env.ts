@@ -1,5 +1,7 @@
 import { z } from "zod";
 
+import { LOCAL_UPLOADTHING_TOKEN } from "../uploads-fake/token";
+
 /**
  * Environment, read once and validated. Every default makes the embedded,
  * single-machine mode work with no environment file at all.
@@ -29,6 +31,24 @@ const envSchema = z.object({
     .enum(["true", "false"])
     .default("true")
     .transform((v) => v === "true"),
+  /** Requests each API token may make per minute (fixed window). */
+  API_RATE_LIMIT_PER_MINUTE: z.coerce.number().int().min(1).max(100_000).default(300),
+  /**
+   * Photo storage through the uploadthing SDK (the SDK's own variables). With
+   * the local development token (the default) the other variables default to
+   * the local storage host, uploads-fake; with a real token they stay unset
+   * and the SDK uses the hosted service. See getUploadthingEnv().
+   */
+  UPLOADTHING_TOKEN: z.string().min(1).default(LOCAL_UPLOADTHING_TOKEN),
+  UPLOADTHING_INGEST_URL: z.string().url().optional(),
+  UPLOADTHING_API_URL: z.string().url().optional(),
+  UPLOADTHING_UFS_HOST: z.string().min(1).optional(),
+  UPLOADTHING_UFS_APP_ID_LOCATION: z.enum(["subdomain", "path"]).optional(),
+  UPLOADTHING_CALLBACK_URL: z.string().url().optional(),
+  /** Port of the local storage host that `npm run dev` / `npm start` start with the local token. */
+  UPLOADS_FAKE_PORT: z.coerce.number().int().min(1).max(65535).default(3100),
+  /** Where that local storage host keeps its files. */
+  UPLOADS_FAKE_DATA_DIR: z.string().min(1).default("data/uploads"),
   /** "true" starts the local mail sink and lists captured mail on the admin pages. */
   MAIL_SINK: z
     .enum(["true", "false"])
@@ -54,4 +74,41 @@ export function getEnv(): Env {
 /** For tests that change the environment between cases. */
 export function resetEnvCache(): void {
   cached = undefined;
+}
+
+export type UploadthingEnv = {
+  token: string;
+  /** True when the app uses the local storage host (the local development token). */
+  local: boolean;
+  ingestUrl?: string;
+  apiUrl?: string;
+  ufsHost?: string;
+  ufsAppIdLocation?: "subdomain" | "path";
+  callbackUrl: string;
+};
+
+/**
+ * The SDK's settings with the embedded-mode defaults filled in: with the local
+ * token every host is the local storage host on UPLOADS_FAKE_PORT; with a
+ * real token only what is set is passed, so the SDK's hosted defaults apply.
+ */
+export function getUploadthingEnv(env: Env = getEnv()): UploadthingEnv {
+  const local = env.UPLOADTHING_TOKEN === LOCAL_UPLOADTHING_TOKEN;
+  const fake = `http://localhost:${env.UPLOADS_FAKE_PORT}`;
+  const appUrl = env.NEXTAUTH_URL ?? `http://localhost:${env.PORT}`;
+  const pick = <T>(value: T | undefined, localDefault: T): T | undefined =>
+    value ?? (local ? localDefault : undefined);
+  const ingestUrl = pick(env.UPLOADTHING_INGEST_URL, fake);
+  const apiUrl = pick(env.UPLOADTHING_API_URL, fake);
+  const ufsHost = pick(env.UPLOADTHING_UFS_HOST, `localhost:${env.UPLOADS_FAKE_PORT}`);
+  const ufsAppIdLocation = pick(env.UPLOADTHING_UFS_APP_ID_LOCATION, "path" as const);
+  return {
+    token: env.UPLOADTHING_TOKEN,
+    local,
+    ...(ingestUrl ? { ingestUrl } : {}),
+    ...(apiUrl ? { apiUrl } : {}),
+    ...(ufsHost ? { ufsHost } : {}),
+    ...(ufsAppIdLocation ? { ufsAppIdLocation } : {}),
+    callbackUrl: env.UPLOADTHING_CALLBACK_URL ?? `${appUrl.replace(/\/$/, "")}/api/uploadthing`,
+  };
 }

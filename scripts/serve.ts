@@ -1,14 +1,17 @@
 /**
  * `npm run dev` and `npm start`: prepares the embedded database (migrate and,
- * on first run, seed the demo network), starts the local mail sink, then the
- * Next.js server. One command, no environment file.
+ * on first run, seed the demo network), starts the local mail sink and the
+ * local photo store, then the Next.js server. One command, no environment file.
  */
 import { spawn } from "node:child_process";
 import { createRequire } from "node:module";
+import path from "node:path";
 
-import { getEnv } from "@/lib/env";
+import { getEnv, getUploadthingEnv } from "@/lib/env";
 import { startMailSink } from "@/lib/mail/sink";
 
+import { startUploadsHost } from "../uploads-fake/server";
+import { parseToken } from "../uploads-fake/token";
 import { prepareAndSeed } from "./prepare-db";
 
 const mode = process.argv[2] === "start" ? "start" : "dev";
@@ -29,6 +32,37 @@ if (env.MAIL_SINK) {
     console.log(`Mail sink listening on smtp://${env.SMTP_HOST}:${sink.port} (messages appear under Admin → Mail).`);
   } catch (error) {
     console.warn(`Mail sink not started (${(error as Error).message}); is another copy running?`);
+  }
+}
+
+// Photo storage: hand the SDK its settings through its own variables (what lib/env.ts decided, defaults
+// included), and with the local token start the local storage host that stands in for the hosted service.
+const uploadthing = getUploadthingEnv(env);
+for (const [name, value] of [
+  ["UPLOADTHING_TOKEN", uploadthing.token],
+  ["UPLOADTHING_INGEST_URL", uploadthing.ingestUrl],
+  ["UPLOADTHING_API_URL", uploadthing.apiUrl],
+  ["UPLOADTHING_UFS_HOST", uploadthing.ufsHost],
+  ["UPLOADTHING_UFS_APP_ID_LOCATION", uploadthing.ufsAppIdLocation],
+  ["UPLOADTHING_CALLBACK_URL", uploadthing.callbackUrl],
+] as const) {
+  if (value !== undefined) process.env[name] ??= value;
+}
+if (uploadthing.local) {
+  try {
+    const { apiKey, appId } = parseToken(uploadthing.token);
+    const store = await startUploadsHost({
+      port: env.UPLOADS_FAKE_PORT,
+      dataDir: path.resolve(env.UPLOADS_FAKE_DATA_DIR),
+      apiKey,
+      appId,
+      ...(uploadthing.ufsHost ? { publicBaseUrl: `http://${uploadthing.ufsHost}` } : {}),
+      quiet: true,
+    });
+    services.push({ name: "photo store", close: store.close });
+    console.log(`Local photo store listening on ${store.url} (files in ${env.UPLOADS_FAKE_DATA_DIR}).`);
+  } catch (error) {
+    console.warn(`Local photo store not started (${(error as Error).message}); is another copy running?`);
   }
 }
 

@@ -12,17 +12,39 @@ const NAV: Record<Role, Array<{ href: string; label: string }>> = {
   observer: [
     { href: "/logbook", label: "Logbook" },
     { href: "/logbook/new", label: "Log a count" },
+    { href: "/instruments", label: "Instruments" },
+    { href: "/planner", label: "Projection planner" },
+    { href: "/disk-template", label: "Disk template" },
+    { href: "/my-k", label: "My k" },
+    { href: "/archive", label: "Archive" },
+    { href: "/logbook/import", label: "Import & export" },
   ],
   student: [
     { href: "/logbook", label: "My counts" },
+    { href: "/class", label: "My class" },
     { href: "/logbook/new", label: "Log a count" },
+    { href: "/instruments", label: "Instruments" },
+    { href: "/planner", label: "Projection planner" },
+    { href: "/disk-template", label: "Disk template" },
+    { href: "/archive", label: "Archive" },
   ],
-  coordinator: [{ href: "/review", label: "Review desk" }],
-  educator: [{ href: "/classrooms", label: "Classrooms" }],
+  coordinator: [
+    { href: "/review", label: "Review desk" },
+    { href: "/observers", label: "Observers" },
+    { href: "/archive", label: "Archive" },
+    { href: "/network-data", label: "Network data" },
+  ],
+  educator: [
+    { href: "/classrooms", label: "Classrooms" },
+    { href: "/archive", label: "Archive" },
+  ],
   admin: [
     { href: "/admin", label: "Users" },
     { href: "/admin/mail", label: "Mail" },
+    { href: "/admin/backups", label: "Backups" },
     { href: "/review", label: "Review desk" },
+    { href: "/observers", label: "Observers" },
+    { href: "/archive", label: "Archive" },
     { href: "/classrooms", label: "Classrooms" },
   ],
 };
@@ -52,6 +74,14 @@ export function AppShell({ user, children }: { user: SessionUser; children: Reac
             <span className="text-ink-200">
               {user.name ?? user.email} · <span className="text-corona-300">{ROLE_LABELS[user.role]}</span>
             </span>
+            {user.role === "student" ? null : (
+              <Link
+                href="/account/tokens"
+                className="text-ink-200 underline-offset-2 hover:text-white hover:underline"
+              >
+                API tokens
+              </Link>
+            )}
             <SignOutButton />
           </div>
         </div>

@@ -46,7 +46,8 @@ function toUtDate(at: Date): string {
   return at.toISOString().slice(0, 10);
 }
 
-function observationValues(input: ObservationInput) {
+/** Column values for an observation input; shared with the Review desk's revision path (db/queries/review.ts). */
+export function observationValues(input: ObservationInput) {
   return {
     instrumentId: input.instrumentId,
     observedAt: input.observedAt,
@@ -66,14 +67,17 @@ export async function createObservation({
   observerId,
   input,
   source,
+  classSessionId = null,
 }: {
   observerId: string;
   input: ObservationInput;
   source: ObservationSource;
+  /** Set when the count is logged for a classroom session (lib/classrooms/session-count.ts). */
+  classSessionId?: string | null;
 }): Promise<ObservationView> {
   const [row] = await getDb()
     .insert(observations)
-    .values({ observerId, ...observationValues(input), source })
+    .values({ observerId, ...observationValues(input), source, classSessionId })
     .returning({ id: observations.id });
   if (!row) throw new Error("insert returned nothing");
   const created = await getObservationOfObserver({ observerId, observationId: row.id });

@@ -8,6 +8,7 @@ import EmailProvider from "next-auth/providers/email";
 import { getDb } from "@/db/client";
 import { getUserByEmail, getUserById } from "@/db/queries/users";
 import { accounts, sessions, users, verificationTokens } from "@/db/schema";
+import { authoriseClassroomSignIn, ClassroomSignInError } from "@/lib/classrooms/students";
 import { sendMail } from "@/lib/mail/send";
 import { signInLinkMessage } from "@/lib/mail/templates";
 import { credentialsSchema } from "@/lib/validation/account";
@@ -71,6 +72,25 @@ export function getAuthOptions(): NextAuthOptions {
           }
           await recordSignInSuccess({ email });
           return { id: user.id, email: user.email, name: user.name };
+        },
+      }),
+      // Students: classroom code, display name and PIN (lib/classrooms/students.ts).
+      CredentialsProvider({
+        id: "classroom",
+        name: "Classroom code and PIN",
+        credentials: {
+          code: { label: "Classroom code" },
+          displayName: { label: "Your name" },
+          pin: { label: "PIN", type: "password" },
+        },
+        async authorize(raw, req) {
+          try {
+            const student = await authoriseClassroomSignIn({ raw, address: clientAddress(req?.headers) });
+            return { id: student.id, name: student.name, email: null };
+          } catch (error) {
+            if (error instanceof ClassroomSignInError) throw new Error(error.message);
+            throw error;
+          }
         },
       }),
       EmailProvider({

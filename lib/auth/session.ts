@@ -7,11 +7,20 @@ import { NextRequest } from "next/server";
 import { getObserverByUserId } from "@/db/queries/observers";
 import { getUserById } from "@/db/queries/users";
 import { AppError } from "@/lib/http/errors";
+import type { ApiTokenScope } from "@/lib/validation/api-token";
 
+import { authenticateApiToken } from "./api-token";
 import { roleSatisfies, type Role } from "./roles";
 import { getAuthSecret } from "./secret";
 
-export type SessionUser = { id: string; name: string | null; email: string | null; role: Role };
+export type SessionUser = {
+  id: string;
+  name: string | null;
+  email: string | null;
+  role: Role;
+  /** Set when the caller signed the request with an API token instead of the session cookie. */
+  apiToken?: { id: string; scope: ApiTokenScope };
+};
 
 /**
  * Who is calling. Route handlers pass their request; server components and
@@ -19,6 +28,12 @@ export type SessionUser = { id: string; name: string | null; email: string | nul
  * The token only names the user: the role always comes from the database.
  */
 export async function getSessionUser({ request }: { request?: Request } = {}): Promise<SessionUser | null> {
+  // API tokens count only for route handlers (which pass their request);
+  // pages and server actions answer to the browser's session cookie alone.
+  if (request) {
+    const viaToken = await authenticateApiToken({ request });
+    if (viaToken) return viaToken;
+  }
   const req = request ? toNextRequest(request) : await requestFromContext();
   const token = await getToken({ req, secret: getAuthSecret() });
   if (!token?.sub) return null;
@@ -60,12 +75,22 @@ export async function requireObserver(
  * from the request itself would lock its body, which the handler still reads.
  */
 function toNextRequest(request: Request): NextRequest {
-  return new NextRequest(request.url, { headers: request.headers });
+  return new NextRequest(request.url, { headers: withoutAuthorization(request.headers) });
+}
+
+/**
+ * getToken would also read a JWT from `Authorization: Bearer`. Our API
+ * tokens are not JWTs and are checked above; keep that header away from it.
+ */
+function withoutAuthorization(source: Headers): Headers {
+  const headers = new Headers(source);
+  headers.delete("authorization");
+  return headers;
 }
 
 async function requestFromContext(): Promise<NextRequest> {
   const [cookieStore, headerStore] = await Promise.all([cookies(), headers()]);
-  const h = new Headers(headerStore);
+  const h = withoutAuthorization(new Headers(headerStore));
   h.set("cookie", cookieStore.toString());
   return new NextRequest("http://localhost/", { headers: h });
 }

@@ -43,7 +43,7 @@ export default async function setup(project: TestProject) {
     throw new Error("The app is not built. Run `npm run build` first (npm test does this for you).");
   }
   const folder = mkdtempSync(path.join(tmpdir(), "heliotally-e2e-"));
-  const [port, smtpPort] = await Promise.all([freePort(), freePort()]);
+  const [port, smtpPort, uploadsPort] = await Promise.all([freePort(), freePort(), freePort()]);
   const baseUrl = `http://localhost:${port}`;
   const databaseUrl = `file:${path.join(folder, "e2e.db")}`;
   const tsx = path.join(process.cwd(), "node_modules", "tsx", "dist", "cli.mjs");
@@ -52,6 +52,9 @@ export default async function setup(project: TestProject) {
       ...process.env,
       PORT: String(port),
       SMTP_PORT: String(smtpPort),
+      // serve.ts starts the local photo store here, with its files in the run's temporary folder.
+      UPLOADS_FAKE_PORT: String(uploadsPort),
+      UPLOADS_FAKE_DATA_DIR: path.join(folder, "uploads"),
       DATABASE_URL: databaseUrl,
       NEXTAUTH_URL: baseUrl,
       NEXTAUTH_SECRET: "e2e-secret-e2e-secret-e2e-secret-e2e",

@@ -9,12 +9,13 @@ import { sendMail } from "@/lib/mail/send";
 import { passwordResetMessage } from "@/lib/mail/templates";
 import { resetPasswordSchema, resetRequestSchema } from "@/lib/validation/account";
 import { fieldErrorsFromZod, type FormState } from "@/lib/validation/form-state";
+import { formFields } from "@/lib/validation/form-data";
 
 const RESET_LIFETIME_MS = 60 * 60 * 1000;
 const hashToken = (token: string) => createHash("sha256").update(token).digest("hex");
 
 export async function requestResetAction(_prev: FormState, form: FormData): Promise<FormState> {
-  const parsed = resetRequestSchema.safeParse(Object.fromEntries(form));
+  const parsed = resetRequestSchema.safeParse(formFields(form));
   if (!parsed.success) return { ok: false, fieldErrors: fieldErrorsFromZod(parsed.error) };
   const user = await getUserByEmail({ email: parsed.data.email });
   if (user && !user.disabledAt && user.email) {
@@ -36,7 +37,7 @@ export async function requestResetAction(_prev: FormState, form: FormData): Prom
 }
 
 export async function resetPasswordAction(_prev: FormState, form: FormData): Promise<FormState> {
-  const parsed = resetPasswordSchema.safeParse(Object.fromEntries(form));
+  const parsed = resetPasswordSchema.safeParse(formFields(form));
   if (!parsed.success) return { ok: false, fieldErrors: fieldErrorsFromZod(parsed.error) };
   const claimed = await consumePasswordResetToken({ tokenHash: hashToken(parsed.data.token), now: new Date() });
   if (!claimed) return { ok: false, message: "This link has expired or was already used. Ask for a new one." };

@@ -5,6 +5,7 @@ import { getEnv } from "@/lib/env";
 import { DEMO_PASSWORD, DEMO_STAFF } from "@/lib/demo/scenario";
 
 import { SignInForm } from "./_components/sign-in-form";
+import { StudentSignInSection } from "./_components/student-sign-in-section";
 
 export const metadata: Metadata = { title: "Sign in" };
 export const dynamic = "force-dynamic";
@@ -35,6 +36,7 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
         New here? <Link href="/sign-up" className="font-semibold text-corona-700 underline">Join as an observer</Link>.
         Forgot your password? <Link href="/reset-password" className="font-semibold text-corona-700 underline">Choose a new one</Link>.
       </p>
+      <StudentSignInSection />
       {demo ? (
         <section aria-label="Demo accounts" className="rounded-lg border border-dashed border-ink-300 bg-white p-4 text-sm">
           <h2 className="font-semibold text-ink-900">Demo accounts (invented network)</h2>

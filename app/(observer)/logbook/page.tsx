@@ -5,18 +5,20 @@ import { ButtonLink } from "@/components/ui/button";
 import { getCurrentKs } from "@/db/queries/observers";
 import { requireObserver } from "@/lib/auth/session";
 
+import { OpenSessionBanner } from "@/app/(observer)/class/_components/open-session-banner";
+import { InboxPanel } from "./_components/inbox-panel";
 import { LogbookTable } from "./_components/logbook-table";
 
 export const metadata: Metadata = { title: "Logbook" };
 
 export default async function LogbookPage() {
-  const { observer } = await requireObserver();
+  const { user, observer } = await requireObserver();
   const kFor = await getCurrentKs({ observerId: observer.id });
   const current = kFor("");
   return (
     <>
       <PageHeader
-        title="Logbook"
+        title={user.role === "student" ? "My counts" : "Logbook"}
         lead={
           <>
             Every count you have logged, newest first. Observer code <strong>{observer.code}</strong>.{" "}
@@ -27,6 +29,8 @@ export default async function LogbookPage() {
         }
         actions={<ButtonLink href="/logbook/new">Log a count</ButtonLink>}
       />
+      {user.role === "student" ? <OpenSessionBanner userId={user.id} observerId={observer.id} /> : null}
+      <InboxPanel userId={user.id} />
       <LogbookTable timeZone={observer.timeZone} />
     </>
   );

@@ -7,6 +7,7 @@ import { useActionState, useEffect, useRef, useState } from "react";
 import { Button } from "@/components/ui/button";
 import { Field, FormMessage, Input } from "@/components/ui/field";
 import { signUpSchema } from "@/lib/validation/account";
+import { formFields } from "@/lib/validation/form-data";
 import { fieldErrorsFromZod, type FormState } from "@/lib/validation/form-state";
 
 import { signUpAction } from "../actions";
@@ -41,7 +42,7 @@ export function SignUpForm() {
       className="flex flex-col gap-4 rounded-lg border border-ink-100 bg-white p-6 shadow-sm"
       action={action}
       onSubmit={(event) => {
-        const data = Object.fromEntries(new FormData(event.currentTarget));
+        const data = formFields(new FormData(event.currentTarget));
         const parsed = signUpSchema.safeParse(data);
         if (!parsed.success) {
           event.preventDefault();
@@ -54,6 +55,7 @@ export function SignUpForm() {
     >
       {state.message ? <FormMessage tone={state.ok ? "success" : "error"}>{state.message}</FormMessage> : null}
       {state.ok ? <FormMessage tone="success">Welcome! Opening your Logbook…</FormMessage> : null}
+      {errors?._form ? <FormMessage tone="error">{errors._form}</FormMessage> : null}
       <Field id="name" label="Name shown to your network" error={errors?.name}>
         <Input id="name" name="name" autoComplete="name" aria-invalid={Boolean(errors?.name)} />
       </Field>

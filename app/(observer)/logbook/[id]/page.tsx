@@ -3,20 +3,26 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 
 import { PageHeader } from "@/components/layout/app-shell";
+import { TracingSummary } from "@/components/tracer/tracing-summary";
 import { getObservationOfObserver } from "@/db/queries/observations";
+import { getTracingSummary } from "@/db/queries/tracings";
 import { requireObserver } from "@/lib/auth/session";
 import { formatLocal, formatRelativeNumber, formatUt } from "@/lib/format/time";
 import { SEEING_LABELS } from "@/lib/validation/observation";
 
 import { StatusBadge } from "@/components/status-badge";
 
+import { PhotoSection } from "./_components/photo-section";
+import { ReviewState } from "./_components/review-state";
+
 export const metadata: Metadata = { title: "Observation" };
 
 export default async function ObservationPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
-  const { observer } = await requireObserver();
+  const { user, observer } = await requireObserver();
   const obs = await getObservationOfObserver({ observerId: observer.id, observationId: id });
   if (!obs) notFound();
+  const tracing = await getTracingSummary({ observationId: obs.id });
   const split = obs.northGroups !== null;
   const rows: Array<[string, React.ReactNode]> = [
     ["Observed", `${formatUt(obs.observedAt)} · ${formatLocal(obs.observedAt, observer.timeZone)} local`],
@@ -49,6 +55,9 @@ export default async function ObservationPage({ params }: { params: Promise<{ id
           ))}
         </dl>
       </div>
+      <ReviewState observation={obs} observerId={observer.id} userId={user.id} />
+      <TracingSummary observationId={obs.id} tracing={tracing} counts={obs} editable />
+      <PhotoSection observationId={obs.id} />
     </>
   );
 }

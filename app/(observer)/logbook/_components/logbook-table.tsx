@@ -24,6 +24,8 @@ export type LogbookRow = {
   relativeNumber: number;
   status: "submitted" | "accepted" | "queried" | "rejected";
   source: string;
+  /** The observation's newest photo, if any (its thumbnail is shown). */
+  photoId?: string | null;
 };
 
 type Page = { data: LogbookRow[]; total: number };
@@ -62,6 +64,19 @@ export function LogbookTable({ timeZone }: { timeZone: string }) {
         cell: (info) => <strong>{formatRelativeNumber(info.getValue())}</strong>,
       }),
       column.accessor("status", { header: "Status", enableSorting: false, cell: (info) => <StatusBadge status={info.getValue()} /> }),
+      column.accessor("photoId", {
+        header: "Photo",
+        enableSorting: false,
+        cell: (info) => {
+          const photoId = info.getValue();
+          return photoId ? (
+            <Link href={`/logbook/${info.row.original.id}`} aria-label="Open the observation with its photo">
+              {/* eslint-disable-next-line @next/next/no-img-element -- a private thumbnail behind a signed redirect */}
+              <img src={`/api/v1/photos/${photoId}/image?variant=thumbnail`} alt="" loading="lazy" className="size-9 rounded bg-ink-900 object-cover" />
+            </Link>
+          ) : null;
+        },
+      }),
     ],
     [timeZone],
   );

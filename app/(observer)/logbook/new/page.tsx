@@ -23,7 +23,11 @@ export default async function NewObservationPage() {
         <PageHeader title="Log a count" lead="Count the groups (g) and the individual spots (s) you see on the projected disk." />
         {options.length === 0 ? (
           <p className="rounded-lg border border-ink-100 bg-white p-6 text-sm text-ink-700">
-            You have no instruments yet. Ask your coordinator to add one, then come back to log your count.
+            You have no instruments in use yet.{" "}
+            <Link href="/instruments/new" className="text-corona-700 underline">
+              Add the one you count with
+            </Link>
+            , then come back to log your count.
           </p>
         ) : (
           <ObservationForm instruments={options} timeZone={observer.timeZone} nowIso={new Date().toISOString()} />

@@ -1,4 +1,5 @@
 import { listObservationsByObserver } from "@/db/queries/observations";
+import { mapPhotoIdsByObservation } from "@/db/queries/photos";
 import { requireObserver } from "@/lib/auth/session";
 import { invalidInput } from "@/lib/http/errors";
 import { withIdempotency } from "@/lib/http/idempotency";
@@ -22,7 +23,10 @@ export const GET = handleRoute(async (request: Request) => {
     from: q.from,
     to: q.to,
   });
-  return Response.json({ data: rows, page: q.page, pageSize: q.pageSize, total });
+  // The newest photo of each row, for the list's thumbnail.
+  const photoIds = await mapPhotoIdsByObservation({ observationIds: rows.map((r) => r.id) });
+  const data = rows.map((r) => ({ ...r, photoId: photoIds.get(r.id) ?? null }));
+  return Response.json({ data, page: q.page, pageSize: q.pageSize, total });
 });
 
 /** Logs one observation for the caller. Honours Idempotency-Key. */

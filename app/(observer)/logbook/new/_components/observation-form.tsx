@@ -1,8 +1,12 @@
 "use client";
 
 import Link from "next/link";
+import { useRouter } from "next/navigation";
 import { useMemo, useRef, useState } from "react";
 
+import { ObservationPhotoField } from "@/components/photo/observation-photo-field";
+import { PhotoAfterSave } from "@/components/photo/photo-after-save";
+import type { AssistOutcome } from "@/components/photo/photo-assist";
 import { Button } from "@/components/ui/button";
 import { Field, FormMessage, Input, Select, TextArea } from "@/components/ui/field";
 import { computeRelativeNumber } from "@/lib/counts/relative-number";
@@ -25,12 +29,19 @@ export function ObservationForm({
   instruments,
   timeZone,
   nowIso,
+  endpoint = "/api/v1/observations",
+  savedHref,
 }: {
   instruments: InstrumentOption[];
   timeZone: string;
   /** The server's clock at render time, so the form opens on "now" in UT. */
   nowIso: string;
+  /** Where the count is sent; a class session has its own (app/(observer)/class). */
+  endpoint?: string;
+  /** When set, a saved count opens this page instead of the "Count saved" panel. */
+  savedHref?: string;
 }) {
+  const router = useRouter();
   const [date, setDate] = useState(() => toUtInputs(new Date(nowIso)).date);
   const [time, setTime] = useState(() => toUtInputs(new Date(nowIso)).time);
   const [values, setValues] = useState<Record<string, string>>({
@@ -49,6 +60,9 @@ export function ObservationForm({
   const [message, setMessage] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
   const [created, setCreated] = useState<Created | null>(null);
+  // The photo is uploaded once the count is saved (it belongs to the saved observation).
+  const [photo, setPhoto] = useState<File | null>(null);
+  const [assist, setAssist] = useState<AssistOutcome | null>(null);
   // One key per filled-in form: a double click or a retry after a dropped
   // connection cannot log the same count twice.
   const idempotencyKey = useRef<string | null>(null);
@@ -89,7 +103,7 @@ export function ObservationForm({
       const payload = Object.fromEntries(
         Object.entries(draft).filter(([, v]) => v !== "" && v !== undefined).map(([k, v]) => [k, COUNT_FIELDS.includes(k as never) || k === "seeing" ? Number(v) : v]),
       );
-      const res = await fetch("/api/v1/observations", {
+      const res = await fetch(endpoint, {
         method: "POST",
         headers: {
           "content-type": "application/json",
@@ -103,6 +117,11 @@ export function ObservationForm({
       if (!res.ok) {
         setErrors(collectErrors(body?.error?.issues ?? []));
         setMessage(body?.error?.message ?? "The count could not be saved.");
+        return;
+      }
+      if (savedHref) {
+        router.push(savedHref);
+        router.refresh();
         return;
       }
       setCreated(body as Created);
@@ -124,9 +143,16 @@ export function ObservationForm({
           {created.k.toFixed(2)} × (10 × {created.groups} + {created.spots}). It waits on the Review desk until your
           coordinator accepts it into the series.
         </p>
+        {photo ? <PhotoAfterSave file={photo} assist={assist} observationId={created.id} /> : null}
         <div className="flex gap-3">
           <Link href="/logbook" className="rounded-md bg-corona-500 px-4 py-2 text-sm font-semibold text-umbra">
             Open the Logbook
+          </Link>
+          <Link
+            href={`/logbook/${created.id}/trace`}
+            className="rounded-md border border-ink-200 bg-white px-4 py-2 text-sm font-semibold"
+          >
+            Trace the disk
           </Link>
           <button
             type="button"
@@ -135,6 +161,8 @@ export function ObservationForm({
               setCreated(null);
               setValues((v) => ({ ...v, groups: "", spots: "", northGroups: "", northSpots: "", southGroups: "", southSpots: "", notes: "" }));
               idempotencyKey.current = null;
+              setPhoto(null);
+              setAssist(null);
             }}
           >
             Log another
@@ -211,6 +239,19 @@ export function ObservationForm({
           </div>
         ) : null}
       </div>
+      {savedHref ? null : (
+        <ObservationPhotoField
+          timeZone={timeZone}
+          onPhotoChange={setPhoto}
+          onAssistChange={setAssist}
+          onUseTime={(at) => {
+            const ut = toUtInputs(at);
+            setDate(ut.date);
+            setTime(ut.time);
+          }}
+          onUseSpotCount={(spots) => setValues((v) => ({ ...v, spots: String(spots) }))}
+        />
+      )}
       <Field id="notes" label="Notes (optional)" hint="Clouds, haze, anything a reviewer should know." error={errors.notes}>
         <TextArea id="notes" rows={3} value={values.notes} onChange={set("notes")} />
       </Field>

@@ -1,10 +1,12 @@
 import { getObservationOfObserver } from "@/db/queries/observations";
+import { deleteObservationWithPhotos, listPhotoKeysOfObservation } from "@/db/queries/photos";
 import { requireObserver } from "@/lib/auth/session";
 import { AppError, invalidInput } from "@/lib/http/errors";
 import { withIdempotency } from "@/lib/http/idempotency";
 import { readJsonBody } from "@/lib/http/read-json";
 import { handleRoute } from "@/lib/http/respond";
 import { reviseObservation } from "@/lib/observations/submit";
+import { deleteStoredFiles } from "@/lib/photo-store/storage";
 import { observationInputSchema } from "@/lib/validation/observation";
 
 type Context = { params: Promise<{ id: string }> };
@@ -33,4 +35,18 @@ export const PUT = handleRoute(async (request: Request, context: Context) => {
     status: 200,
     body: await reviseObservation({ observerId: observer.id, observationId: id, input: parsed.data }),
   }));
+});
+
+/**
+ * Deletes the caller's own observation with its photos. The photo files go
+ * first: if the store cannot be reached nothing is deleted (and the caller
+ * is told), so no file is ever left behind without its observation.
+ */
+export const DELETE = handleRoute(async (request: Request, context: Context) => {
+  const { observer } = await requireObserver(undefined, { request });
+  const { id } = await context.params;
+  if (!(await getObservationOfObserver({ observerId: observer.id, observationId: id }))) throw notFound();
+  await deleteStoredFiles({ keys: await listPhotoKeysOfObservation({ observationId: id }) });
+  if (!(await deleteObservationWithPhotos({ observerId: observer.id, observationId: id }))) throw notFound();
+  return new Response(null, { status: 204 });
 });

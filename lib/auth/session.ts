@@ -35,11 +35,33 @@ export async function getSessionUser({ request }: { request?: Request } = {}): P
     if (viaToken) return viaToken;
   }
   const req = request ? toNextRequest(request) : await requestFromContext();
-  const token = await getToken({ req, secret: getAuthSecret() });
-  if (!token?.sub) return null;
-  const user = await getUserById({ userId: token.sub });
+  const userId = await readSessionUserId(req);
+  if (!userId) return null;
+  const user = await getUserById({ userId });
   if (!user || user.disabledAt) return null;
   return { id: user.id, name: user.name, email: user.email, role: user.role };
+}
+
+// Decoding the session cookie (key derivation and decryption) costs more
+// than the user lookup that follows; the same cookie always decodes to the
+// same user until it expires, so remember it briefly. The role and disabled
+// flag are still read from the database on every request.
+const DECODED_TTL_MS = 60_000;
+const DECODED_MAX = 1_000;
+const decoded = new Map<string, { userId: string | null; until: number }>();
+
+async function readSessionUserId(req: NextRequest): Promise<string | null> {
+  const cookie = req.headers.get("cookie") ?? "";
+  if (!cookie.includes("session-token")) return null;
+  const now = Date.now();
+  const hit = decoded.get(cookie);
+  if (hit && hit.until > now) return hit.userId;
+  const token = await getToken({ req, secret: getAuthSecret() });
+  const userId = typeof token?.sub === "string" ? token.sub : null;
+  const expiresAt = typeof token?.exp === "number" ? token.exp * 1000 : now + DECODED_TTL_MS;
+  if (decoded.size >= DECODED_MAX) decoded.delete(decoded.keys().next().value as string);
+  decoded.set(cookie, { userId, until: Math.min(now + DECODED_TTL_MS, expiresAt) });
+  return userId;
 }
 
 /**

@@ -430,6 +430,17 @@ export async function getSessionWithClassroom({ sessionId }: { sessionId: string
   return row ?? null;
 }
 
+/** A student's count with their display name, as the classroom's own pages show it. */
+const studentCountColumns = {
+  userId: observers.userId,
+  observerId: observers.id,
+  displayName: observers.displayName,
+  groups: observations.groups,
+  spots: observations.spots,
+  seeing: observations.seeing,
+  observedAt: observations.observedAt,
+};
+
 /** Every count logged for a classroom's sessions, with the student's display name (for use inside that classroom only). */
 export async function listClassroomCounts({ classroomId }: { classroomId: string }) {
   return getDb()
@@ -437,13 +448,7 @@ export async function listClassroomCounts({ classroomId }: { classroomId: string
       observationId: observations.id,
       sessionId: classroomSessions.id,
       day: classroomSessions.day,
-      userId: observers.userId,
-      observerId: observers.id,
-      displayName: observers.displayName,
-      groups: observations.groups,
-      spots: observations.spots,
-      seeing: observations.seeing,
-      observedAt: observations.observedAt,
+      ...studentCountColumns,
     })
     .from(observations)
     .innerJoin(classroomSessions, eq(classroomSessions.id, observations.classSessionId))
@@ -456,13 +461,7 @@ export async function listSessionCounts({ sessionId }: { sessionId: string }) {
   return getDb()
     .select({
       observationId: observations.id,
-      userId: observers.userId,
-      observerId: observers.id,
-      displayName: observers.displayName,
-      groups: observations.groups,
-      spots: observations.spots,
-      seeing: observations.seeing,
-      observedAt: observations.observedAt,
+      ...studentCountColumns,
     })
     .from(observations)
     .innerJoin(observers, eq(observers.id, observations.observerId))

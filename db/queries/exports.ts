@@ -4,6 +4,7 @@ import { and, asc, eq, inArray, sql, type SQL } from "drizzle-orm";
 
 import { getDb } from "../client";
 import { instruments, observationGroups, observations, observers } from "../schema";
+import { observationCountColumns } from "./observations";
 
 /** Rows per query while streaming an export: memory stays flat however large the archive. */
 const PAGE_ROWS = 2000;
@@ -17,14 +18,7 @@ const exportColumns = {
   instrumentName: instruments.name,
   observedAt: observations.observedAt,
   utDate: observations.utDate,
-  seeing: observations.seeing,
-  groups: observations.groups,
-  spots: observations.spots,
-  northGroups: observations.northGroups,
-  northSpots: observations.northSpots,
-  southGroups: observations.southGroups,
-  southSpots: observations.southSpots,
-  notes: observations.notes,
+  ...observationCountColumns,
   status: observations.status,
   source: observations.source,
   createdAt: observations.createdAt,

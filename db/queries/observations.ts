@@ -9,13 +9,12 @@ import { getDb } from "../client";
 import { instruments, observations, observers, type ObservationSource } from "../schema";
 import { getCurrentKs } from "./observers";
 
-const observationColumns = {
-  id: observations.id,
-  observerId: observations.observerId,
-  instrumentId: observations.instrumentId,
-  instrumentName: instruments.name,
-  observedAt: observations.observedAt,
-  utDate: observations.utDate,
+/**
+ * The counts an observer reports (seeing through notes), as columns: every
+ * selection of an observation's counts spreads this (exports, tracings, the
+ * Review desk's revision path).
+ */
+export const observationCountColumns = {
   seeing: observations.seeing,
   groups: observations.groups,
   spots: observations.spots,
@@ -24,6 +23,16 @@ const observationColumns = {
   southGroups: observations.southGroups,
   southSpots: observations.southSpots,
   notes: observations.notes,
+};
+
+const observationColumns = {
+  id: observations.id,
+  observerId: observations.observerId,
+  instrumentId: observations.instrumentId,
+  instrumentName: instruments.name,
+  observedAt: observations.observedAt,
+  utDate: observations.utDate,
+  ...observationCountColumns,
   status: observations.status,
   source: observations.source,
   createdAt: observations.createdAt,

@@ -23,7 +23,7 @@ import {
   type FlagReason,
   type ObservationStatus,
 } from "../schema";
-import { observationValues } from "./observations";
+import { observationCountColumns, observationValues } from "./observations";
 import {
   isNetworkCount,
   listCountsOnDays,
@@ -413,14 +413,7 @@ export async function resubmitObservation({
           observerUserId: observers.userId,
           observedAt: observations.observedAt,
           instrumentId: observations.instrumentId,
-          seeing: observations.seeing,
-          groups: observations.groups,
-          spots: observations.spots,
-          northGroups: observations.northGroups,
-          northSpots: observations.northSpots,
-          southGroups: observations.southGroups,
-          southSpots: observations.southSpots,
-          notes: observations.notes,
+          ...observationCountColumns,
         })
         .from(observations)
         .innerJoin(observers, eq(observers.id, observations.observerId))

@@ -16,6 +16,7 @@ import {
   observers,
   tracings,
 } from "../schema";
+import { observationCountColumns } from "./observations";
 
 export type { ObservationCounts };
 
@@ -31,14 +32,7 @@ const observationForTracingColumns = {
   instrumentName: instruments.name,
   observedAt: observations.observedAt,
   utDate: observations.utDate,
-  seeing: observations.seeing,
-  groups: observations.groups,
-  spots: observations.spots,
-  northGroups: observations.northGroups,
-  northSpots: observations.northSpots,
-  southGroups: observations.southGroups,
-  southSpots: observations.southSpots,
-  notes: observations.notes,
+  ...observationCountColumns,
   status: observations.status,
 };
 

@@ -25,9 +25,8 @@
  * one observation dated 2000-01-01 ("Benchmark tracing") for its tracing,
  * reusing it on later runs.
  */
-import { spawn, spawnSync, type ChildProcess } from "node:child_process";
+import { spawnSync } from "node:child_process";
 import { existsSync, mkdtempSync, readdirSync, statSync } from "node:fs";
-import { createServer } from "node:net";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
@@ -42,6 +41,7 @@ import { suggestGroups } from "../../lib/tracer/grouping";
 import { measureTracing } from "../../lib/tracer/measure";
 import { documentToSky, resolveSkyFrame, skyToDocument, type SkyFrame } from "../../lib/tracer/orientation";
 import { checkTracingDocument, createEmptyTracing, type TracingDocument } from "../../lib/validation/tracing";
+import { startBuiltApp } from "../support/start-app";
 
 const BENCH_INSTANT = new Date("2000-01-01T12:00:00Z");
 const BENCH_NOTE = "Benchmark tracing (made by tests/bench/tracer.bench.ts; safe to delete)";
@@ -211,19 +211,8 @@ function newestMtime(entry: string): number {
   );
 }
 
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.once("error", reject);
-    server.listen(0, "127.0.0.1", () => {
-      const address = server.address();
-      server.close(() => resolve(typeof address === "object" && address ? address.port : 0));
-    });
-  });
-}
-
-/** Builds if needed and starts the app like tests/e2e/global-setup.ts; returns its URL and a stop function. */
-async function startBuiltApp(): Promise<{ baseUrl: string; stop: () => Promise<void> }> {
+/** Builds if needed, then starts the app as the e2e tests do (tests/support/start-app.ts). */
+async function buildAndStartApp(): Promise<{ baseUrl: string; stop: () => Promise<void> }> {
   const buildId = path.join(".next", "BUILD_ID");
   const builtAt = existsSync(buildId) ? statSync(buildId).mtimeMs : 0;
   if (builtAt < Math.max(...SOURCES.map(newestMtime))) {
@@ -236,49 +225,7 @@ async function startBuiltApp(): Promise<{ baseUrl: string; stop: () => Promise<v
     });
     if (build.status !== 0) throw new Error("next build failed");
   }
-  const folder = mkdtempSync(path.join(tmpdir(), "heliotally-bench-"));
-  const [port, smtpPort] = await Promise.all([freePort(), freePort()]);
-  const baseUrl = `http://localhost:${port}`;
-  const tsx = path.join(process.cwd(), "node_modules", "tsx", "dist", "cli.mjs");
-  const child: ChildProcess = spawn(
-    process.execPath,
-    [tsx, "--conditions=react-server", "scripts/serve.ts", "start"],
-    {
-      env: {
-        ...process.env,
-        PORT: String(port),
-        SMTP_PORT: String(smtpPort),
-        DATABASE_URL: `file:${path.join(folder, "bench.db")}`,
-        NEXTAUTH_URL: baseUrl,
-        NEXTAUTH_SECRET: "bench-secret-bench-secret-bench-secret",
-        HELIOTALLY_DEMO: "true",
-      },
-      stdio: ["ignore", "pipe", "pipe"],
-    },
-  );
-  let output = "";
-  child.stdout?.on("data", (d: Buffer) => (output += d.toString()));
-  child.stderr?.on("data", (d: Buffer) => (output += d.toString()));
-  const deadline = Date.now() + 120_000;
-  for (;;) {
-    if (child.exitCode !== null) throw new Error(`The app exited during start-up:\n${output}`);
-    try {
-      if ((await fetch(`${baseUrl}/sign-in`)).ok) break;
-    } catch {
-      // not listening yet
-    }
-    if (Date.now() > deadline) throw new Error(`The app did not answer within 120 s:\n${output}`);
-    await new Promise((r) => setTimeout(r, 500));
-  }
-  return {
-    baseUrl,
-    stop: async () => {
-      if (child.exitCode === null) {
-        child.kill("SIGTERM");
-        await new Promise((r) => child.once("exit", r));
-      }
-    },
-  };
+  return startBuiltApp({ label: "bench", nextAuthSecret: "bench-secret-bench-secret-bench-secret" });
 }
 
 /** Finds (or makes, once) the bench observation and stores the 500-spot tracing on it. */
@@ -475,7 +422,9 @@ async function main(): Promise<void> {
   let browser: BrowserFigures | null = null;
   if (process.env.BENCH_SKIP_BROWSER !== "1") {
     const given = process.env.BENCH_BASE_URL;
-    const app = given ? { baseUrl: given.replace(/\/$/, ""), stop: async () => {} } : await startBuiltApp();
+    const app = given
+      ? { baseUrl: given.replace(/\/$/, ""), stop: async () => {} }
+      : await buildAndStartApp();
     try {
       const mode = given ? `running server at ${given} (a dev server is pessimistic)` : "production build";
       browser = await runBrowserPart(app.baseUrl, document, mode);

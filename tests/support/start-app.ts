@@ -1,0 +1,85 @@
+/**
+ * Starts the built app the way `npm start` does (prepare and seed the demo
+ * database, start the mail sink and local photo store, then `next start`) on
+ * free ports with a temporary database, and waits until it answers. Shared by
+ * tests/e2e/global-setup.ts and the browser benchmarks, so both run the app
+ * the same way. It does not build: callers check or make .next first.
+ */
+import { spawn } from "node:child_process";
+import { mkdtempSync } from "node:fs";
+import { createServer } from "node:net";
+import { tmpdir } from "node:os";
+import path from "node:path";
+
+export type StartedApp = { baseUrl: string; databaseUrl: string; stop: () => Promise<void> };
+
+const START_TIMEOUT_MS = 120_000;
+
+async function findFreePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const server = createServer();
+    server.once("error", reject);
+    server.listen(0, "127.0.0.1", () => {
+      const address = server.address();
+      server.close(() => resolve(typeof address === "object" && address ? address.port : 0));
+    });
+  });
+}
+
+/** `label` names the temporary folder and database file (e.g. "e2e" → heliotally-e2e-…/e2e.db). */
+export async function startBuiltApp({
+  label,
+  nextAuthSecret,
+}: {
+  label: string;
+  nextAuthSecret: string;
+}): Promise<StartedApp> {
+  const folder = mkdtempSync(path.join(tmpdir(), `heliotally-${label}-`));
+  const [port, smtpPort, uploadsPort] = await Promise.all([findFreePort(), findFreePort(), findFreePort()]);
+  const baseUrl = `http://localhost:${port}`;
+  const databaseUrl = `file:${path.join(folder, `${label}.db`)}`;
+  const tsx = path.join(process.cwd(), "node_modules", "tsx", "dist", "cli.mjs");
+  const child = spawn(process.execPath, [tsx, "--conditions=react-server", "scripts/serve.ts", "start"], {
+    env: {
+      ...process.env,
+      PORT: String(port),
+      SMTP_PORT: String(smtpPort),
+      // serve.ts starts the local photo store here, with its files in the run's temporary folder.
+      UPLOADS_FAKE_PORT: String(uploadsPort),
+      UPLOADS_FAKE_DATA_DIR: path.join(folder, "uploads"),
+      DATABASE_URL: databaseUrl,
+      NEXTAUTH_URL: baseUrl,
+      NEXTAUTH_SECRET: nextAuthSecret,
+      HELIOTALLY_DEMO: "true",
+    },
+    stdio: ["ignore", "pipe", "pipe"],
+  });
+  let output = "";
+  child.stdout?.on("data", (d: Buffer) => (output += d.toString()));
+  child.stderr?.on("data", (d: Buffer) => (output += d.toString()));
+
+  const deadline = Date.now() + START_TIMEOUT_MS;
+  for (;;) {
+    if (child.exitCode !== null) throw new Error(`The app exited during start-up:\n${output}`);
+    try {
+      if ((await fetch(`${baseUrl}/sign-in`)).ok) break;
+    } catch {
+      // not listening yet
+    }
+    if (Date.now() > deadline) {
+      throw new Error(`The app did not answer within ${START_TIMEOUT_MS / 1000} s:\n${output}`);
+    }
+    await new Promise((r) => setTimeout(r, 500));
+  }
+
+  return {
+    baseUrl,
+    databaseUrl,
+    stop: async () => {
+      if (child.exitCode === null) {
+        child.kill("SIGTERM");
+        await new Promise((r) => child.once("exit", r));
+      }
+    },
+  };
+}

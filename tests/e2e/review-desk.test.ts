@@ -55,6 +55,8 @@ describe("the coordinator queries a flagged count and its observer reads the not
     await page.getByRole("tab", { name: /Awaiting review/ }).waitFor();
     await page.getByLabel("Flags", { exact: true }).selectOption("any");
     await page.locator('tbody tr [aria-label="Automatic flags"] li').first().waitFor();
+    // Wait until the filtered page has replaced the unfiltered one.
+    await page.locator('table[aria-busy="false"]').waitFor();
     // The planted slipped digits sit far above the day's network whatever the k values.
     expect(await page.locator("tbody").getByText("Far from the network").count()).toBeGreaterThan(0);
     // Every row left by the "Any flag" filter carries at least one chip.

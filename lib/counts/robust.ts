@@ -2,7 +2,7 @@
  * Robust statistics for checking counts: median, scaled MAD and the flags a
  * coordinator sees on the Review desk. Median and MAD are used rather than
  * mean and standard deviation because the values being judged are exactly
- * the ones that may be wrong, and one transcription error (137 typed for 17)
+ * the ones that may be wrong, and one copying slip (137 typed for 17)
  * would otherwise inflate the spread enough to hide itself.
  */
 

@@ -5,6 +5,7 @@
 import { getDb } from "@/db/client";
 import { prepareDatabase } from "@/db/prepare";
 import { runFullRecompute } from "@/db/queries/recompute";
+import { flagAwaitingReview } from "@/db/queries/review-flags";
 import { isDatabaseEmpty, seedDemo } from "@/db/seed";
 import { getEnv } from "@/lib/env";
 
@@ -19,6 +20,8 @@ export async function prepareAndSeed({ log = console.log }: { log?: (line: strin
     // Fit every k and fill the Archive now, so the demo opens with a series.
     const recomputed = await runFullRecompute();
     log(`Fitted ${recomputed.kCoefficients} k coefficients; the series holds ${recomputed.days} days.`);
+    // Judge the waiting counts again now that every observer has a fitted k.
+    await flagAwaitingReview({ db });
   }
 }
 

@@ -21,6 +21,7 @@ import { NETWORK_REFERENCE, type KSettings } from "@/lib/validation/k-settings";
 
 import { getDb } from "../client";
 import { createJob, findActiveJob, finishJob, markJobRunning, reportJobProgress, type JobView } from "./jobs";
+import { flagAwaitingReview } from "./review-flags";
 import { getKSettings, K_REFERENCE } from "./k";
 import { getReferenceSeries, loadReferenceValues } from "./reference-series";
 import {
@@ -480,6 +481,9 @@ export async function runRecomputeJob({ jobId }: { jobId: string }): Promise<voi
     const summary = await runFullRecompute({
       onProgress: (progress, message) => reportJobProgress({ jobId, progress, message }),
     });
+    // The "far from the network" flags on counts still waiting were judged
+    // with the old k values; judge them again with the new ones.
+    await flagAwaitingReview();
     await finishJob({ jobId, status: "done", message: describeSummary(summary) });
   } catch (error) {
     console.error("Full recompute failed", error);

@@ -7,6 +7,9 @@ import { z } from "zod";
 
 import type { Role } from "@/lib/auth/roles";
 import { importOptionsSchema } from "@/lib/validation/import";
+import { kSettingsSchema } from "@/lib/validation/k-settings";
+import { referenceImportSchema } from "@/lib/validation/reference-import";
+import { reviewDecisionSchema } from "@/lib/validation/review";
 import {
   logbookExportQuerySchema,
   networkExportQuerySchema,
@@ -294,6 +297,26 @@ export const API_ROUTES: ApiRoute[] = [
     },
   },
   {
+    operationId: "decideObservations",
+    method: "post",
+    path: "/api/v1/review/decisions",
+    tag: "Observations",
+    summary: "Accept, query, reject or reopen observations (coordinators)",
+    description:
+      "Decides one or many observations from the Review desk, all or none. A query, a rejection or a reopening must carry a note saying why; at most 200 observations at a time.",
+    roles: ["coordinator"],
+    scope: "read-submit",
+    body: {
+      schema: reviewDecisionSchema,
+      contentType: "application/json",
+      description: "The decision and the observations it applies to.",
+      name: "ReviewDecision",
+    },
+    idempotent: true,
+    responses: { 200: { description: "Every observation was decided." } },
+    example: { body: { action: "query", observationIds: ["<observation id>"], note: "Was the sky clear?" } },
+  },
+  {
     operationId: "exportLogbook",
     method: "get",
     path: "/api/v1/exports/logbook",
@@ -370,6 +393,57 @@ export const API_ROUTES: ApiRoute[] = [
     pathParams: observerPathSchema,
     responses: { 200: { description: "The k history, oldest period first.", schema: kHistorySchema } },
     example: { pathParams: { id: "me" } },
+  },
+  {
+    operationId: "saveKSettings",
+    method: "put",
+    path: "/api/v1/k-settings",
+    tag: "Series and k",
+    summary: "Save how k is computed (coordinators)",
+    description:
+      "Replaces the whole set of k settings: period, method, minimum of common days, reference, pilot and drift threshold. They take effect at the next full recompute.",
+    roles: ["coordinator"],
+    scope: "read-submit",
+    body: {
+      schema: kSettingsSchema,
+      contentType: "application/json",
+      description: "Every k setting.",
+      name: "KSettings",
+    },
+    responses: { 200: { description: "The settings as saved." } },
+    example: {
+      body: {
+        periodKind: "year",
+        method: "ratio-of-sums",
+        minCommonDays: 10,
+        referenceSeriesId: "network",
+        pilotObserverId: null,
+        pilotK: 1,
+        driftFraction: 0.1,
+      },
+    },
+  },
+  {
+    operationId: "importReferenceSeries",
+    method: "post",
+    path: "/api/v1/reference-series",
+    tag: "Series and k",
+    summary: "Import a reference series (coordinators)",
+    description:
+      "The CSV text travels inside the JSON body: a header naming date and value, then one row per UT day. Any bad row refuses the whole file with 400 and one issue per row; nothing is stored half-way.",
+    roles: ["coordinator"],
+    scope: "read-submit",
+    body: {
+      schema: referenceImportSchema,
+      contentType: "application/json",
+      description: "The series' name, licence, optional source, and the CSV text (at most 5 MB).",
+      name: "ReferenceImport",
+    },
+    idempotent: true,
+    responses: { 201: { description: "The series was stored." } },
+    example: {
+      body: { name: "My reference", licence: "CC BY 4.0", csv: "date,value\n2026-03-14,42\n" },
+    },
   },
   {
     operationId: "getSolarOrientation",

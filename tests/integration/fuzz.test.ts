@@ -6,8 +6,6 @@
  * make the request invalid (a corruption that might leave it valid, such as
  * deleting an optional field, is never used alone).
  */
-import { createHash } from "node:crypto";
-
 import { and, count, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
@@ -19,8 +17,16 @@ import { insertApiToken } from "@/db/queries/api-tokens";
 import { apiTokens, observations } from "@/db/schema";
 import { generateApiToken } from "@/lib/auth/api-token";
 import { resetEnvCache } from "@/lib/env";
-import { errorBodySchema } from "@/lib/api/schemas";
+import { DEFAULT_MAX_BODY_BYTES } from "@/lib/http/read-json";
 
+import {
+  buildJsonCase,
+  createRandom,
+  expectRefusal,
+  fingerprintDatabase,
+  idempotencyHeader,
+  type Random,
+} from "./fuzz-support";
 import { makeUser, sessionCookie } from "./support";
 
 process.env.API_RATE_LIMIT_PER_MINUTE = "100000";
@@ -29,55 +35,12 @@ resetEnvCache();
 const CASES_PER_ROUTE = 300;
 const SEED = 20_260_314;
 
-/** mulberry32: a small, well-known seeded generator (common practice for reproducible tests). */
-function createRandom(seed: number) {
-  let a = seed >>> 0;
-  const next = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  const int = (min: number, max: number) => min + Math.floor(next() * (max - min + 1));
-  const pick = <T>(items: readonly T[]): T => items[int(0, items.length - 1)]!;
-  return { next, int, pick };
-}
-type Random = ReturnType<typeof createRandom>;
-
 type Made = Awaited<ReturnType<typeof makeUser>>;
 let alice: Made;
 let bob: Made;
 let ownObservationId: string;
 let bobObservationId: string;
 let token: string;
-
-/** A fingerprint of every table: row counts and a hash of every row, in rowid order. */
-async function fingerprintDatabase(): Promise<Record<string, string>> {
-  const client = getDb().$client;
-  const tables = await client.execute(
-    "SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' AND name NOT LIKE '__drizzle%' ORDER BY name",
-  );
-  const out: Record<string, string> = {};
-  for (const row of tables.rows) {
-    const name = String(row.name);
-    // Requests signed with a token count against its rate limit and note its
-    // last use: bookkeeping of the request, not data it tried to store.
-    if (name === "rate_limits") continue;
-    const select =
-      name === "api_tokens"
-        ? "SELECT id, user_id, name, token_hash, prefix, scope, revoked_at FROM api_tokens"
-        : `SELECT * FROM "${name}"`;
-    const rows = await client.execute(`${select} ORDER BY rowid`);
-    const hash = createHash("sha256");
-    for (const r of rows.rows)
-      hash.update(
-        JSON.stringify(Array.from(r as ArrayLike<unknown>, (v) => (typeof v === "bigint" ? String(v) : v))),
-      );
-    out[name] = `${rows.rows.length}:${hash.digest("hex").slice(0, 16)}`;
-  }
-  return out;
-}
 
 const validObservation = () => ({
   observedAt: "2025-09-01T09:30:00Z",
@@ -160,32 +123,6 @@ function corruptObservation(
   }
 }
 
-/** Breaks the JSON text itself, or the request around it. */
-function corruptRequestText(random: Random, text: string): { text: string; contentType?: string } {
-  switch (random.int(0, 5)) {
-    case 0:
-      return { text: text.slice(0, random.int(1, text.length - 2)) };
-    case 1: {
-      const structural = [...text.matchAll(/[{}":,]/g)].map((m) => m.index!);
-      const at = random.pick(structural);
-      return { text: `${text.slice(0, at)}${random.pick(["x", "]", "\\", "\u0000"])}${text.slice(at + 1)}` };
-    }
-    case 2:
-      return {
-        text: String.fromCharCode(...Array.from({ length: random.int(1, 200) }, () => random.int(0, 255))),
-      };
-    case 3:
-      return {
-        text,
-        contentType: random.pick(["text/plain", "application/x-www-form-urlencoded", "text/csv", ""]),
-      };
-    case 4:
-      return { text: JSON.stringify({ ...JSON.parse(text), notes: "x".repeat(70 * 1024) }) };
-    default:
-      return { text: "" };
-  }
-}
-
 function authHeaders(
   random: Random,
   userId: string,
@@ -195,32 +132,12 @@ function authHeaders(
     : sessionCookie(userId).then((c) => ({ cookie: c }));
 }
 
-function idempotencyHeader(random: Random): Record<string, string> {
-  const roll = random.next();
-  if (roll < 0.3) return { "idempotency-key": `fuzz-${random.int(0, 1e9)}` };
-  if (roll < 0.4)
-    return {
-      "idempotency-key": random.pick(["short", "with space in it", "ü-not-ascii-key", "x".repeat(200)]),
-    };
-  return {};
-}
-
-function buildJsonCase(random: Random) {
-  if (random.next() < 0.7) {
-    const body = corruptObservation(random, validObservation());
-    return { text: body === undefined ? "" : JSON.stringify(body), contentType: "application/json" };
-  }
-  const broken = corruptRequestText(random, JSON.stringify(validObservation()));
-  return { text: broken.text, contentType: broken.contentType ?? "application/json" };
-}
-
-async function expectRefusal(res: Response, label: string) {
-  const text = await res.text();
-  expect(res.status, `${label}: ${text.slice(0, 300)}`).toBeGreaterThanOrEqual(400);
-  expect(res.status, `${label}: ${text.slice(0, 300)}`).toBeLessThan(500);
-  const parsed = errorBodySchema.safeParse(JSON.parse(text));
-  expect(parsed.success, `${label}: ${text.slice(0, 300)}`).toBe(true);
-}
+const buildObservationCase = (random: Random) =>
+  buildJsonCase(random, {
+    valid: validObservation,
+    corrupt: corruptObservation,
+    maxBytes: DEFAULT_MAX_BODY_BYTES,
+  });
 
 beforeAll(async () => {
   alice = await makeUser({ role: "observer", name: "Alice" });
@@ -277,7 +194,7 @@ describe("fuzzing the write routes", () => {
   it(`POST /api/v1/observations refuses ${CASES_PER_ROUTE} corrupted payloads`, async () => {
     const random = createRandom(SEED);
     for (let i = 0; i < CASES_PER_ROUTE; i++) {
-      const { text, contentType } = buildJsonCase(random);
+      const { text, contentType } = buildObservationCase(random);
       const headers = {
         ...(await authHeaders(random, alice.user.id)),
         ...idempotencyHeader(random),
@@ -304,7 +221,7 @@ describe("fuzzing the write routes", () => {
           : ownObservationId;
       const { text, contentType } =
         target === ownObservationId
-          ? buildJsonCase(random)
+          ? buildObservationCase(random)
           : { text: JSON.stringify(validObservation()), contentType: "application/json" };
       const headers = {
         ...(await authHeaders(random, alice.user.id)),

@@ -1,5 +1,14 @@
 import { sql } from "drizzle-orm";
-import { blob, index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import {
+  blob,
+  index,
+  integer,
+  primaryKey,
+  real,
+  sqliteTable,
+  text,
+  uniqueIndex,
+} from "drizzle-orm/sqlite-core";
 
 import { ROLES, type Role } from "../lib/auth/roles";
 
@@ -188,7 +197,31 @@ export const observations = sqliteTable(
     // order: a full recompute streams it without touching the table or
     // sorting, and refreshing one day is a single range seek.
     index("observations_accepted_day_idx")
-      .on(t.utDate, t.instrumentId, t.groups, t.spots, t.northGroups, t.northSpots, t.southGroups, t.southSpots)
+      .on(
+        t.utDate,
+        t.instrumentId,
+        t.groups,
+        t.spots,
+        t.northGroups,
+        t.northSpots,
+        t.southGroups,
+        t.southSpots,
+      )
+      .where(sql`status = 'accepted'`),
+    // The same columns instrument by instrument: the full recompute reads
+    // each instrument's accepted counts as one packed string, with no join
+    // and no sort (measured in tests/bench/series.bench.ts).
+    index("observations_accepted_instrument_idx")
+      .on(
+        t.instrumentId,
+        t.utDate,
+        t.groups,
+        t.spots,
+        t.northGroups,
+        t.northSpots,
+        t.southGroups,
+        t.southSpots,
+      )
       .where(sql`status = 'accepted'`),
   ],
 );
@@ -267,7 +300,10 @@ export const classroomMembers = sqliteTable(
     pinHash: text("pin_hash").notNull(),
     joinedAt: createdAt(),
   },
-  (t) => [primaryKey({ columns: [t.classroomId, t.userId] }), uniqueIndex("classroom_members_user_idx").on(t.userId)],
+  (t) => [
+    primaryKey({ columns: [t.classroomId, t.userId] }),
+    uniqueIndex("classroom_members_user_idx").on(t.userId),
+  ],
 );
 
 // ---------------------------------------------------------------------------
@@ -330,7 +366,10 @@ export const observationFlags = sqliteTable(
     detail: text("detail").notNull(),
     createdAt: createdAt(),
   },
-  (t) => [index("observation_flags_observation_idx").on(t.observationId), index("observation_flags_reason_idx").on(t.reason)],
+  (t) => [
+    index("observation_flags_observation_idx").on(t.observationId),
+    index("observation_flags_reason_idx").on(t.reason),
+  ],
 );
 
 /** Messages shown in a user's Logbook (and also e-mailed). */

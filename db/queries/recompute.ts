@@ -1,10 +1,11 @@
 import "server-only";
 
-import { formatDayNumber, toDayNumber } from "@/lib/counts/series";
+import { formatDayNumber } from "@/lib/counts/series";
 import {
-  appendPackedDay,
+  appendPackedUnit,
   createAcceptedCounts,
   sliceByKey,
+  sortCountsByDay,
   type AcceptedCounts,
 } from "@/lib/series/accepted-counts";
 import {
@@ -25,7 +26,7 @@ import { flagAwaitingReview } from "./review-flags";
 import { getKSettings, K_REFERENCE } from "./k";
 import { getReferenceSeries, loadReferenceValues } from "./reference-series";
 import {
-  acceptedDayIndexHint,
+  acceptedInstrumentIndexHint,
   bumpSeriesRevisionStatement,
   DAILY_COLUMNS,
   dailyValues,
@@ -40,55 +41,50 @@ export type Units = { units: KUnit[]; observerOfUnit: Int32Array; labelOf: (unit
 
 /**
  * Every accepted count, in day order, as typed arrays. The database packs
- * each day's counts into one string (see appendPackedDay for why); units
+ * each instrument's counts into one string (see appendPackedUnit for why),
+ * straight from the covering index of accepted counts by instrument; units
  * are instruments, each belonging to one observer.
  */
 export async function loadAcceptedCounts(): Promise<{ counts: AcceptedCounts } & Units> {
   const client = getDb().$client;
   const instrumentRows = await client.execute(
-    `SELECT i.rowid AS rowNumber, i.id AS instrumentId, i.observer_id AS observerId, i.name AS instrumentName,
+    `SELECT i.id AS instrumentId, i.observer_id AS observerId, i.name AS instrumentName,
             ob.display_name AS displayName, ob.code AS code
      FROM instruments i JOIN observers ob ON ob.id = i.observer_id ORDER BY i.rowid`,
   );
   const units: KUnit[] = [];
   const labels: string[] = [];
-  const unitOfRow = new Map<number, number>();
+  const unitOfInstrument = new Map<string, number>();
   const observerIndex = new Map<string, number>();
   const observerOfUnitList: number[] = [];
   for (const row of instrumentRows.rows) {
     const observerId = String(row.observerId);
-    unitOfRow.set(Number(row.rowNumber), units.length);
+    unitOfInstrument.set(String(row.instrumentId), units.length);
     units.push({ observerId, instrumentId: String(row.instrumentId) });
     labels.push(`${String(row.displayName)} (${String(row.code)}, ${String(row.instrumentName)})`);
     if (!observerIndex.has(observerId)) observerIndex.set(observerId, observerIndex.size);
     observerOfUnitList.push(observerIndex.get(observerId)!);
   }
 
-  const hint = await acceptedDayIndexHint();
   const packed = await client.execute(`
-    SELECT o.ut_date AS day,
-           group_concat(i.rowid || ' ' || (10 * o.groups + o.spots) ||
-             CASE WHEN o.north_groups IS NULL OR o.north_spots IS NULL OR o.south_groups IS NULL OR o.south_spots IS NULL THEN ''
-                  ELSE ' ' || (10 * o.north_groups + o.north_spots) || ' ' || (10 * o.south_groups + o.south_spots) END, ',') AS packed,
-           count(*) AS n
-    FROM observations o ${hint} JOIN instruments i ON i.id = o.instrument_id
-    WHERE o.status = 'accepted'
-    GROUP BY o.ut_date
-    ORDER BY o.ut_date`);
+    SELECT instrument_id AS instrumentId, count(*) AS n,
+           group_concat(ut_date || ' ' || (10 * groups + spots) ||
+             CASE WHEN north_groups IS NULL OR north_spots IS NULL OR south_groups IS NULL OR south_spots IS NULL THEN ''
+                  ELSE ' ' || (10 * north_groups + north_spots) || ' ' || (10 * south_groups + south_spots) END, ',') AS packed
+    FROM observations ${await acceptedInstrumentIndexHint()}
+    WHERE status = 'accepted'
+    GROUP BY instrument_id`);
   let total = 0;
   for (const row of packed.rows) total += Number(row.n);
-  const counts = createAcceptedCounts(total);
-  const unitOfKey = (key: number) => unitOfRow.get(key);
+  const byUnit = createAcceptedCounts(total);
   for (const row of packed.rows) {
-    appendPackedDay({
-      counts,
-      dayNumber: toDayNumber(String(row.day)),
-      packed: String(row.packed),
-      unitOfKey,
-    });
+    const unit = unitOfInstrument.get(String(row.instrumentId));
+    if (unit === undefined)
+      throw new Error(`Accepted counts name an unknown instrument ${String(row.instrumentId)}`);
+    appendPackedUnit({ counts: byUnit, unit, packed: String(row.packed) });
   }
   return {
-    counts,
+    counts: sortCountsByDay(byUnit),
     units,
     observerOfUnit: Int32Array.from(observerOfUnitList),
     labelOf: (unit) => labels[unit] ?? `unit ${unit}`,
@@ -379,8 +375,10 @@ async function fitAllK({
   }
   const kOf = buildKLookup({ fits, unitCount: units.length });
   const kOfRow = new Float64Array(counts.length);
+  const kOfUnit = new Float64Array(units.length);
   for (const period of periods) {
-    for (let i = period.from; i < period.to; i++) kOfRow[i] = kOf(counts.unit[i] as number, period.key);
+    for (let unit = 0; unit < units.length; unit++) kOfUnit[unit] = kOf(unit, period.key);
+    for (let i = period.from; i < period.to; i++) kOfRow[i] = kOfUnit[counts.unit[i] as number] as number;
   }
   return { fits, kOfRow, periods: periods.length, referenceLabel };
 }

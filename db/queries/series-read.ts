@@ -23,7 +23,7 @@ export type SeriesRowOf<K extends SeriesKind> = K extends "daily"
     : YearlySeriesRow;
 
 /** Table, time column and the columns each kind answers with; sort columns are checked by the query schema. */
-const TABLES = {
+export const SERIES_TABLES = {
   daily: { table: "series_daily", time: "day", columns: ["day", "observers", "mean", "sd"] },
   monthly: { table: "series_monthly", time: "month", columns: ["month", "days", "mean", "smoothed"] },
   yearly: { table: "series_yearly", time: "year", columns: ["year", "days", "mean"] },
@@ -38,7 +38,7 @@ function buildFilter({
   kind: SeriesKind;
   query: Pick<SeriesQuery, "hemisphere" | "from" | "to">;
 }) {
-  const time = TABLES[kind].time;
+  const time = SERIES_TABLES[kind].time;
   const clauses = ["hemisphere = ?"];
   const args: Array<string | number> = [query.hemisphere];
   const bound = (value: string) => (kind === "yearly" ? Number(value) : value);
@@ -53,7 +53,7 @@ function buildFilter({
   return { where: clauses.join(" AND "), args };
 }
 
-function toRow(kind: SeriesKind, row: Row): DailySeriesRow | MonthlySeriesRow | YearlySeriesRow {
+export function toSeriesRow(kind: SeriesKind, row: Row): DailySeriesRow | MonthlySeriesRow | YearlySeriesRow {
   const nullable = (v: unknown) => (v === null || v === undefined ? null : Number(v));
   if (kind === "daily")
     return {
@@ -85,7 +85,7 @@ export async function listSeriesPage<K extends SeriesKind>({
   kind: K;
   query: SeriesQuery<K>;
 }): Promise<{ rows: Array<SeriesRowOf<K>>; total: number }> {
-  const { table, time, columns } = TABLES[kind];
+  const { table, time, columns } = SERIES_TABLES[kind];
   const { column, direction } = query.sort;
   if (!SORTABLE.has(column)) throw new Error(`Unsortable column ${column}`);
   const { where, args } = buildFilter({ kind, query });
@@ -101,7 +101,7 @@ export async function listSeriesPage<K extends SeriesKind>({
     "read",
   );
   return {
-    rows: page!.rows.map((r) => toRow(kind, r)) as Array<SeriesRowOf<K>>,
+    rows: page!.rows.map((r) => toSeriesRow(kind, r)) as Array<SeriesRowOf<K>>,
     total: Number(count!.rows[0]?.n ?? 0),
   };
 }
@@ -126,7 +126,7 @@ export async function exportSeriesCsv({
   kind: SeriesKind;
   query: Pick<SeriesQuery, "hemisphere" | "from" | "to">;
 }): Promise<string> {
-  const { table, time, columns } = TABLES[kind];
+  const { table, time, columns } = SERIES_TABLES[kind];
   const { where, args } = buildFilter({ kind, query });
   const result = await getDb().$client.execute({
     sql: `SELECT ${columns.join(", ")} FROM ${table} WHERE ${where} ORDER BY ${time} ASC`,
@@ -134,7 +134,7 @@ export async function exportSeriesCsv({
   });
   const lines: string[] = [CSV_HEADERS[kind].join(",")];
   for (const raw of result.rows) {
-    const row = toRow(kind, raw);
+    const row = toSeriesRow(kind, raw);
     if ("day" in row)
       lines.push(
         [
@@ -365,14 +365,14 @@ export async function getMonthReport({ month }: { month: string }): Promise<Mont
   for (const row of dailyResult!.rows) {
     const day = String(row.day);
     const entry = byDay.get(day) ?? { day, all: null, north: null, south: null };
-    if (row.hemisphere === "all") entry.all = toRow("daily", row) as DailySeriesRow;
+    if (row.hemisphere === "all") entry.all = toSeriesRow("daily", row) as DailySeriesRow;
     else if (row.hemisphere === "N") entry.north = Number(row.mean);
     else entry.south = Number(row.mean);
     byDay.set(day, entry);
   }
   const means: MonthReport["means"] = { all: null, N: null, S: null };
   for (const row of monthlyResult!.rows)
-    means[String(row.hemisphere) as Hemisphere] = toRow("monthly", row) as MonthlySeriesRow;
+    means[String(row.hemisphere) as Hemisphere] = toSeriesRow("monthly", row) as MonthlySeriesRow;
   return {
     month,
     days: [...byDay.values()],

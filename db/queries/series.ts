@@ -41,29 +41,37 @@ export const K_FOR_OBSERVATION_SQL = `COALESCE(
      ORDER BY kc.period_end DESC, kc.created_at DESC LIMIT 1),
   1.0)`;
 
-const ACCEPTED_DAY_INDEX = "observations_accepted_day_idx";
-const hintCache = globalThis as unknown as { __heliotallyAcceptedHint?: WeakMap<object, string> };
+const hintCache = globalThis as unknown as {
+  __heliotallyIndexHints?: WeakMap<object, Map<string, string>>;
+};
 
 /**
- * "INDEXED BY observations_accepted_day_idx" once that index exists. Without
- * table statistics SQLite prefers the status index and then sorts a million
- * rows by day; the covering index is already in day order (measured in
- * tests/bench/series.bench.ts). A database whose server started before the
- * migration that adds the index simply runs without the hint.
+ * "INDEXED BY <index>" once that index exists. Without table statistics
+ * SQLite prefers the status index and then sorts a million rows; the
+ * covering indexes of accepted counts are already in the order wanted
+ * (measured in tests/bench/series.bench.ts). A database whose server started
+ * before the migration that adds an index simply runs without the hint.
  */
-export async function acceptedDayIndexHint(): Promise<string> {
+async function indexHint(name: string): Promise<string> {
   const client = getDb().$client;
-  const cache = (hintCache.__heliotallyAcceptedHint ??= new WeakMap());
-  const known = cache.get(client);
-  if (known !== undefined) return known;
+  const cache = (hintCache.__heliotallyIndexHints ??= new WeakMap());
+  let known = cache.get(client);
+  if (!known) cache.set(client, (known = new Map()));
+  const hint = known.get(name);
+  if (hint !== undefined) return hint;
   const found = await client.execute({
     sql: "SELECT 1 FROM sqlite_master WHERE type = 'index' AND name = ?",
-    args: [ACCEPTED_DAY_INDEX],
+    args: [name],
   });
-  const hint = found.rows.length > 0 ? `INDEXED BY ${ACCEPTED_DAY_INDEX}` : "";
-  cache.set(client, hint);
-  return hint;
+  const made = found.rows.length > 0 ? `INDEXED BY ${name}` : "";
+  known.set(name, made);
+  return made;
 }
+
+/** Accepted counts in day order: refreshing one day is a single range seek. */
+export const acceptedDayIndexHint = () => indexHint("observations_accepted_day_idx");
+/** Accepted counts instrument by instrument: the full recompute's read. */
+export const acceptedInstrumentIndexHint = () => indexHint("observations_accepted_instrument_idx");
 
 const REVISION_KEY = "series.revision";
 

@@ -5,7 +5,7 @@ import { cookies, headers } from "next/headers";
 import { NextRequest } from "next/server";
 
 import { getObserverByUserId } from "@/db/queries/observers";
-import { getUserById } from "@/db/queries/users";
+import { getSessionIdentity } from "@/db/queries/users";
 import { AppError } from "@/lib/http/errors";
 import type { ApiTokenScope } from "@/lib/validation/api-token";
 
@@ -34,10 +34,9 @@ export async function getSessionUser({ request }: { request?: Request } = {}): P
     const viaToken = await authenticateApiToken({ request });
     if (viaToken) return viaToken;
   }
-  const req = request ? toNextRequest(request) : await requestFromContext();
-  const userId = await readSessionUserId(req);
+  const userId = await readSessionUserId(request);
   if (!userId) return null;
-  const user = await getUserById({ userId });
+  const user = await getSessionIdentity({ userId });
   if (!user || user.disabledAt) return null;
   return { id: user.id, name: user.name, email: user.email, role: user.role };
 }
@@ -50,12 +49,14 @@ const DECODED_TTL_MS = 60_000;
 const DECODED_MAX = 1_000;
 const decoded = new Map<string, { userId: string | null; until: number }>();
 
-async function readSessionUserId(req: NextRequest): Promise<string | null> {
-  const cookie = req.headers.get("cookie") ?? "";
+/** The user id in the session cookie; the request copy next-auth wants is only built for a new cookie. */
+async function readSessionUserId(request: Request | undefined): Promise<string | null> {
+  const cookie = request ? (request.headers.get("cookie") ?? "") : await readContextCookie();
   if (!cookie.includes("session-token")) return null;
   const now = Date.now();
   const hit = decoded.get(cookie);
   if (hit && hit.until > now) return hit.userId;
+  const req = request ? toNextRequest(request) : await requestFromContext();
   const token = await getToken({ req, secret: getAuthSecret() });
   const userId = typeof token?.sub === "string" ? token.sub : null;
   const expiresAt = typeof token?.exp === "number" ? token.exp * 1000 : now + DECODED_TTL_MS;
@@ -108,6 +109,10 @@ function withoutAuthorization(source: Headers): Headers {
   const headers = new Headers(source);
   headers.delete("authorization");
   return headers;
+}
+
+async function readContextCookie(): Promise<string> {
+  return (await cookies()).toString();
 }
 
 async function requestFromContext(): Promise<NextRequest> {

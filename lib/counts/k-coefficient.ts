@@ -267,27 +267,88 @@ export type NetworkKResult = {
 export function estimateNetworkK({
   observations,
   pilotId,
-  pilotK = 1,
-  method = "ratio-of-sums",
-  tolerance = 1e-6,
-  maxIterations = 200,
-  leaveOwnOut = true,
-  minCommonDays = DEFAULT_MIN_COMMON_DAYS,
+  ...options
 }: {
   observations: ReadonlyArray<NetworkObservation>;
   pilotId: string;
+} & NetworkKOptions): NetworkKResult {
+  return fitNetwork({ layout: buildLayout(observations), pilotId, ...options });
+}
+
+export type NetworkKOptions = {
   pilotK?: number;
   method?: KMethod;
   tolerance?: number;
   maxIterations?: number;
   leaveOwnOut?: boolean;
   minCommonDays?: number;
-}): NetworkKResult {
+};
+
+/**
+ * Counts as parallel columns: observation j is observer `observer[j]`
+ * (an index into `observerIds`) on day number `day[j]` with `raw[j]`.
+ */
+export type NetworkColumns = {
+  observerIds: readonly string[];
+  observer: Int32Array;
+  day: Int32Array;
+  raw: Float64Array;
+  length: number;
+};
+
+/**
+ * {@link estimateNetworkK} over columns instead of one object per count:
+ * the full recompute fits a million counts, where building those objects
+ * and mapping their ids costs more than the fit itself (measured in
+ * tests/bench/series.bench.ts). Same rules, same result.
+ */
+export function estimateNetworkKFromColumns({
+  columns,
+  pilotId,
+  ...options
+}: { columns: NetworkColumns; pilotId: string } & NetworkKOptions): NetworkKResult {
+  const { observerIds, observer, day, raw, length } = columns;
+  for (let j = 0; j < length; j++) {
+    const value = raw[j] as number;
+    const index = observer[j] as number;
+    if (!(value >= 0) || !Number.isFinite(value)) {
+      throw new RangeError(
+        `estimateNetworkK: raw must be finite and >= 0, got ${value} for ${observerIds[index]}`,
+      );
+    }
+    if (!(index >= 0 && index < observerIds.length)) {
+      throw new RangeError(`estimateNetworkK: observer index ${index} is out of range`);
+    }
+    toDayNumber(day[j] as number);
+  }
+  const observerIndex = new Map(observerIds.map((id, i) => [id, i]));
+  if (observerIndex.size !== observerIds.length)
+    throw new RangeError("estimateNetworkK: observer ids repeat");
+  const layout = layoutColumns({
+    observerIds: [...observerIds],
+    observerIndex,
+    observerOf: observer.subarray(0, length),
+    dayNumbers: day.subarray(0, length),
+    raws: raw.subarray(0, length),
+  });
+  return fitNetwork({ layout, pilotId, ...options });
+}
+
+function fitNetwork({
+  layout,
+  pilotId,
+  pilotK = 1,
+  method = "ratio-of-sums",
+  tolerance = 1e-6,
+  maxIterations = 200,
+  leaveOwnOut = true,
+  minCommonDays = DEFAULT_MIN_COMMON_DAYS,
+}: { layout: Layout; pilotId: string } & NetworkKOptions): NetworkKResult {
   if (!(pilotK > 0) || !Number.isFinite(pilotK))
     throw new RangeError(`pilotK must be positive, got ${pilotK}`);
-  const layout = buildLayout(observations);
   const pilot = layout.observerIndex.get(pilotId);
-  if (pilot === undefined) throw new RangeError(`The pilot "${pilotId}" has no observations`);
+  if (pilot === undefined || layout.offsets[pilot] === layout.offsets[pilot + 1])
+    throw new RangeError(`The pilot "${pilotId}" has no observations`);
 
   const inNetwork = selectNetworkObservers({ layout, minCommonDays });
   if (inNetwork[pilot] !== 1) {
@@ -422,6 +483,7 @@ function buildLayout(observations: ReadonlyArray<NetworkObservation>): Layout {
   const observerIds: string[] = [];
   const observerOf = new Int32Array(count);
   const dayNumbers = new Int32Array(count);
+  const raws = new Float64Array(count);
   for (let j = 0; j < count; j++) {
     const { observerId, day, raw } = observations[j] as NetworkObservation;
     if (!(raw >= 0) || !Number.isFinite(raw)) {
@@ -435,7 +497,25 @@ function buildLayout(observations: ReadonlyArray<NetworkObservation>): Layout {
     }
     observerOf[j] = index;
     dayNumbers[j] = toDayNumber(day);
+    raws[j] = raw;
   }
+  return layoutColumns({ observerIds, observerIndex, observerOf, dayNumbers, raws });
+}
+
+function layoutColumns({
+  observerIds,
+  observerIndex,
+  observerOf,
+  dayNumbers,
+  raws: rawOf,
+}: {
+  observerIds: string[];
+  observerIndex: Map<string, number>;
+  observerOf: Int32Array;
+  dayNumbers: Int32Array;
+  raws: Float64Array;
+}): Layout {
+  const count = observerOf.length;
   const daySlots = assignDaySlots(dayNumbers);
   const observerCount = observerIds.length;
   const offsets = new Int32Array(observerCount + 1);
@@ -456,7 +536,7 @@ function buildLayout(observations: ReadonlyArray<NetworkObservation>): Layout {
     const position = cursor[i] as number;
     cursor[i] = position + 1;
     slots[position] = daySlots.slots[j] as number;
-    raws[position] = (observations[j] as NetworkObservation).raw;
+    raws[position] = rawOf[j] as number;
   }
   // Two counts from one observer on one day would leave one of them inside
   // that observer's own "leave-own-out" reference; the caller must pick or

@@ -60,70 +60,123 @@ export function appendCount(
 }
 
 /**
- * Reads one day's counts packed as text by the database ("unit raw" or
- * "unit raw north south", entries separated by commas) and appends them.
- * The database packs a day's rows into one string because handing a million
- * separate rows to JavaScript costs far more than the scan itself (measured
- * in tests/bench/series.bench.ts). `unitOfKey` maps the packed unit key (the
- * instrument's row number) to a unit index; counts of unknown keys throw.
+ * Reads one unit's counts packed as text by the database ("YYYY-MM-DD raw"
+ * or "YYYY-MM-DD raw north south", entries separated by commas) and appends
+ * them in the order given, which need not be day order: call
+ * {@link sortCountsByDay} once every unit is in. The database packs each
+ * unit's rows into one string because handing a million separate rows to
+ * JavaScript costs far more than reading them (measured in
+ * tests/bench/series.bench.ts); grouping by unit needs no join.
  */
-export function appendPackedDay({
+export function appendPackedUnit({
   counts,
-  dayNumber,
+  unit,
   packed,
-  unitOfKey,
 }: {
   counts: AcceptedCounts;
-  dayNumber: number;
+  unit: number;
   packed: string;
-  unitOfKey: (key: number) => number | undefined;
 }): void {
-  if (counts.length > 0 && dayNumber < (counts.dayNumber[counts.length - 1] as number)) {
-    throw new RangeError("Accepted counts must be appended in day order");
-  }
-  const fields = [0, 0, 0, 0];
-  let fieldCount = 0;
-  let value = 0;
-  let inNumber = false;
-  const flush = () => {
-    if (inNumber) {
-      if (fieldCount < 4) fields[fieldCount] = value;
+  const length = packed.length;
+  let p = 0;
+  while (p < length) {
+    const day = readPackedDay(packed, p);
+    p += 10;
+    let fieldCount = 0;
+    let raw = 0;
+    let north = NO_SPLIT;
+    let south = NO_SPLIT;
+    while (p < length && packed.charCodeAt(p) === 32) {
+      p++;
+      let value = 0;
+      const start = p;
+      for (; p < length; p++) {
+        const digit = packed.charCodeAt(p) - 48;
+        if (digit < 0 || digit > 9) break;
+        value = value * 10 + digit;
+      }
+      if (p === start) throw new RangeError(`Malformed packed count near position ${start}`);
+      if (fieldCount === 0) raw = value;
+      else if (fieldCount === 1) north = value;
+      else if (fieldCount === 2) south = value;
       fieldCount++;
     }
-    value = 0;
-    inNumber = false;
-  };
-  const finishEntry = () => {
-    flush();
-    if (fieldCount === 0) return;
-    if (fieldCount !== 2 && fieldCount !== 4)
-      throw new RangeError(`Malformed packed count for day ${dayNumber}`);
-    const unit = unitOfKey(fields[0] as number);
-    if (unit === undefined) throw new RangeError(`Unknown unit key ${fields[0]} for day ${dayNumber}`);
+    if (fieldCount !== 1 && fieldCount !== 3)
+      throw new RangeError(`Malformed packed count near position ${p}`);
+    if (p < length) {
+      if (packed.charCodeAt(p) !== 44) throw new RangeError(`Unexpected character at position ${p}`);
+      p++;
+    }
     grow(counts, counts.length + 1);
     const i = counts.length;
-    counts.dayNumber[i] = dayNumber;
+    counts.dayNumber[i] = day;
     counts.unit[i] = unit;
-    counts.raw[i] = fields[1] as number;
-    counts.northRaw[i] = fieldCount === 4 ? (fields[2] as number) : NO_SPLIT;
-    counts.southRaw[i] = fieldCount === 4 ? (fields[3] as number) : NO_SPLIT;
+    counts.raw[i] = raw;
+    counts.northRaw[i] = north;
+    counts.southRaw[i] = south;
     counts.length = i + 1;
-    fieldCount = 0;
-  };
-  for (let p = 0; p < packed.length; p++) {
-    const code = packed.charCodeAt(p);
-    if (code >= 48 && code <= 57) {
-      value = value * 10 + (code - 48);
-      inNumber = true;
-    } else if (code === 32) {
-      flush();
-    } else if (code === 44) {
-      finishEntry();
-    } else {
-      throw new RangeError(`Unexpected character in packed counts for day ${dayNumber}`);
-    }
   }
-  finishEntry();
+}
+
+/** "YYYY-MM-DD" at `at` as a day number (days since 1970-01-01), without slicing the string. */
+function readPackedDay(packed: string, at: number): number {
+  if (packed.charCodeAt(at + 4) !== 45 || packed.charCodeAt(at + 7) !== 45)
+    throw new RangeError(`Expected a day as YYYY-MM-DD at position ${at}`);
+  let year = 0;
+  for (let i = at; i < at + 4; i++) year = year * 10 + digitAt(packed, i);
+  const month = digitAt(packed, at + 5) * 10 + digitAt(packed, at + 6);
+  const dayOfMonth = digitAt(packed, at + 8) * 10 + digitAt(packed, at + 9);
+  if (month < 1 || month > 12 || dayOfMonth < 1 || dayOfMonth > 31)
+    throw new RangeError(`Expected a real calendar day at position ${at}`);
+  // Days from the civil date by whole 400-year eras (the same rule as toDayNumber).
+  const y = month <= 2 ? year - 1 : year;
+  const era = Math.floor(y / 400);
+  const yearOfEra = y - era * 400;
+  const dayOfYear = Math.floor((153 * (month + (month > 2 ? -3 : 9)) + 2) / 5) + dayOfMonth - 1;
+  const dayOfEra = yearOfEra * 365 + Math.floor(yearOfEra / 4) - Math.floor(yearOfEra / 100) + dayOfYear;
+  return era * 146097 + dayOfEra - 719468;
+}
+
+function digitAt(text: string, at: number): number {
+  const digit = text.charCodeAt(at) - 48;
+  if (digit < 0 || digit > 9) throw new RangeError(`Expected a digit at position ${at}`);
+  return digit;
+}
+
+/**
+ * The same counts in day order (a stable counting sort: within a day, the
+ * order they were appended in). Linear in the number of counts plus the
+ * span of days, which a million counts over decades keeps small.
+ */
+export function sortCountsByDay(counts: AcceptedCounts): AcceptedCounts {
+  const n = counts.length;
+  const sorted = createAcceptedCounts(n);
+  sorted.length = n;
+  if (n === 0) return sorted;
+  let first = Number.POSITIVE_INFINITY;
+  let last = Number.NEGATIVE_INFINITY;
+  for (let i = 0; i < n; i++) {
+    const day = counts.dayNumber[i] as number;
+    if (day < first) first = day;
+    if (day > last) last = day;
+  }
+  const start = new Int32Array(last - first + 2);
+  for (let i = 0; i < n; i++) {
+    const slot = (counts.dayNumber[i] as number) - first + 1;
+    start[slot] = (start[slot] as number) + 1;
+  }
+  for (let d = 1; d < start.length; d++) start[d] = (start[d] as number) + (start[d - 1] as number);
+  for (let i = 0; i < n; i++) {
+    const slot = (counts.dayNumber[i] as number) - first;
+    const at = start[slot] as number;
+    start[slot] = at + 1;
+    sorted.dayNumber[at] = counts.dayNumber[i] as number;
+    sorted.unit[at] = counts.unit[i] as number;
+    sorted.raw[at] = counts.raw[i] as number;
+    sorted.northRaw[at] = counts.northRaw[i] as number;
+    sorted.southRaw[at] = counts.southRaw[i] as number;
+  }
+  return sorted;
 }
 
 /** Contiguous slices [from, to) of rows sharing a key (day, period...), in row order. */

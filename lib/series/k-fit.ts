@@ -12,10 +12,9 @@
 import {
   detectKDrift,
   estimateK,
-  estimateNetworkK,
+  estimateNetworkKFromColumns,
   type KMethod,
   type KPair,
-  type NetworkObservation,
 } from "@/lib/counts/k-coefficient";
 
 import type { AcceptedCounts } from "./accepted-counts";
@@ -146,18 +145,19 @@ export function fitPeriodK({
     return { fits, standIn: null, unfitted: pairs.length > 0 && fits.length === 0 };
   }
 
-  const observations: NetworkObservation[] = new Array(pairs.length);
   const keys = units.map((_, i) => String(i));
   const observationsOfUnit = new Int32Array(units.length);
   for (let j = 0; j < pairs.length; j++) {
     const unit = pairs.unit[j] as number;
     observationsOfUnit[unit] = (observationsOfUnit[unit] as number) + 1;
-    observations[j] = {
-      observerId: keys[unit] as string,
-      day: pairs.dayNumber[j] as number,
-      raw: pairs.raw[j] as number,
-    };
   }
+  const columns = {
+    observerIds: keys,
+    observer: pairs.unit,
+    day: pairs.dayNumber,
+    raw: pairs.raw,
+    length: pairs.length,
+  };
   const byActivity = units
     .map((_, unit) => unit)
     .filter((unit) => (observationsOfUnit[unit] as number) >= minCommonDays)
@@ -179,10 +179,10 @@ export function fitPeriodK({
     })),
   ];
   for (const candidate of candidates) {
-    let result: ReturnType<typeof estimateNetworkK>;
+    let result: ReturnType<typeof estimateNetworkKFromColumns>;
     try {
-      result = estimateNetworkK({
-        observations,
+      result = estimateNetworkKFromColumns({
+        columns,
         pilotId: keys[candidate.unit] as string,
         pilotK: candidate.k,
         method,
@@ -213,7 +213,7 @@ export function fitPeriodK({
       unfitted: false,
     };
   }
-  return { fits: [], standIn: null, unfitted: observations.length > 0 };
+  return { fits: [], standIn: null, unfitted: pairs.length > 0 };
 }
 
 function fitAgainstSeries({

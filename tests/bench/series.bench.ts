@@ -9,7 +9,8 @@
  *      on the archives of 10,000 and 1,000,000 counts;
  *  (c) an Archive table page (50 rows, sorted, filtered) through the real
  *      route handler in a node:http server on 127.0.0.1, loaded by 32
- *      concurrent clients from a worker thread, bounded in requests and time.
+ *      concurrent clients from a worker thread, bounded in requests and time;
+ *      and the first page after a write, when the series is read again.
  * Prints one line per figure and a final JSON line.
  */
 import { mkdtempSync, rmSync } from "node:fs";
@@ -421,6 +422,22 @@ async function measureHttp() {
       `/ ${failed} / ${results[name].perSecond.toFixed(0)}`,
     );
   }
+  // The first page after a review decision reads the series again (one
+  // hemisphere, once per revision); one client, so no queueing.
+  const { bumpSeriesRevisionStatement } = await import("@/db/queries/series");
+  const afterWrite: number[] = [];
+  for (let i = 0; i < 20; i++) {
+    await client.execute(bumpSeriesRevisionStatement());
+    const { ms } = await timeIt(async () => {
+      const response = await fetch(`http://127.0.0.1:${server.port}${repeated[i % repeated.length]}`, {
+        headers: { cookie },
+      });
+      if (response.status !== 200) throw new Error(`Status ${response.status} after a write`);
+      await response.arrayBuffer();
+    });
+    afterWrite.push(ms);
+  }
+  report("(c) first page after a review decision (series re-read): median", median(afterWrite));
   await server.close();
   return results;
 }

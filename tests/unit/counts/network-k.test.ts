@@ -1,6 +1,12 @@
 import { describe, expect, it } from "vitest";
 
-import { estimateK, estimateNetworkK, K_METHODS, type NetworkObservation } from "@/lib/counts/k-coefficient";
+import {
+  estimateK,
+  estimateNetworkK,
+  estimateNetworkKFromColumns,
+  K_METHODS,
+  type NetworkObservation,
+} from "@/lib/counts/k-coefficient";
 import { computeDailyIndex, formatDayNumber } from "@/lib/counts/series";
 
 import { generateSyntheticNetwork, type SyntheticNetwork } from "./helpers";
@@ -351,5 +357,57 @@ describe("estimateNetworkK membership and input handling", () => {
       expect((refit.k as number) * scale).toBeCloseTo(kOf(observerId), 5);
       expect(refit.n).toBe(result.byObserver.get(observerId)?.n);
     }
+  });
+});
+
+describe("estimateNetworkKFromColumns", () => {
+  it("gives exactly what estimateNetworkK gives for the same counts", () => {
+    const network = generateSyntheticNetwork({ seed: 23, observerCount: 14, dayCount: 200, coverage: 0.6 });
+    const pilotId = choosePilot(network);
+    // One extra id with no counts: present in the columns' id list, never counted.
+    const observerIds = [...network.observerIds, "obs-idle"];
+    const index = new Map(observerIds.map((id, i) => [id, i]));
+    const n = network.observations.length;
+    const columns = {
+      observerIds,
+      observer: Int32Array.from(network.observations, (o) => index.get(o.observerId) as number),
+      day: Int32Array.from(network.observations, (o) => o.day),
+      raw: Float64Array.from(network.observations, (o) => o.raw),
+      length: n,
+    };
+    for (const method of K_METHODS) {
+      const fromObjects = estimateNetworkK({ observations: network.observations, pilotId, method });
+      const fromColumns = estimateNetworkKFromColumns({ columns, pilotId, method });
+      expect(fromColumns.iterations).toBe(fromObjects.iterations);
+      // Observers are summed in another order, so values agree to rounding.
+      for (const observerId of network.observerIds) {
+        const a = fromColumns.byObserver.get(observerId)!;
+        const b = fromObjects.byObserver.get(observerId)!;
+        expect({ n: a.n, status: a.status, meetsMinimum: a.meetsMinimum }).toEqual({
+          n: b.n,
+          status: b.status,
+          meetsMinimum: b.meetsMinimum,
+        });
+        expect(a.k).toBeCloseTo(b.k as number, 12);
+        expect(a.sigma).toBeCloseTo(b.sigma as number, 12);
+      }
+      expect(fromColumns.byObserver.get("obs-idle")?.k).toBeNull();
+    }
+  });
+
+  it("refuses negative counts and unknown observer indexes", () => {
+    const base = { observerIds: ["a", "b"], day: Int32Array.of(1, 1), length: 2 };
+    expect(() =>
+      estimateNetworkKFromColumns({
+        columns: { ...base, observer: Int32Array.of(0, 1), raw: Float64Array.of(20, -3) },
+        pilotId: "a",
+      }),
+    ).toThrow(RangeError);
+    expect(() =>
+      estimateNetworkKFromColumns({
+        columns: { ...base, observer: Int32Array.of(0, 2), raw: Float64Array.of(20, 30) },
+        pilotId: "a",
+      }),
+    ).toThrow(/out of range/);
   });
 });

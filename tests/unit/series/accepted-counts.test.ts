@@ -1,40 +1,56 @@
 import { describe, expect, it } from "vitest";
 
+import { toDayNumber } from "@/lib/counts/series";
 import {
   appendCount,
-  appendPackedDay,
+  appendPackedUnit,
   createAcceptedCounts,
   NO_SPLIT,
   sliceByKey,
+  sortCountsByDay,
 } from "@/lib/series/accepted-counts";
 
-const unitOfKey = (key: number) => (key >= 100 ? key - 100 : undefined);
-
-describe("appendPackedDay", () => {
-  it("reads plain and split counts and grows the arrays as needed", () => {
-    const counts = createAcceptedCounts(1);
-    appendPackedDay({ counts, dayNumber: 19_000, packed: "100 47,101 30 20 10,102 0", unitOfKey });
-    appendPackedDay({ counts, dayNumber: 19_001, packed: "", unitOfKey });
-    appendPackedDay({ counts, dayNumber: 19_002, packed: "100 11", unitOfKey });
+describe("appendPackedUnit and sortCountsByDay", () => {
+  it("reads plain and split counts, grows the arrays, and sorts them into day order", () => {
+    const byUnit = createAcceptedCounts(1);
+    appendPackedUnit({ counts: byUnit, unit: 1, packed: "2022-01-02 30 20 10,2022-01-04 11" });
+    appendPackedUnit({ counts: byUnit, unit: 0, packed: "" });
+    appendPackedUnit({ counts: byUnit, unit: 2, packed: "2022-01-02 0,2021-12-31 47" });
+    const counts = sortCountsByDay(byUnit);
     expect(counts.length).toBe(4);
-    expect([...counts.unit.subarray(0, 4)]).toEqual([0, 1, 2, 0]);
+    // toDayNumber is the reference for the hand-written date reader.
+    expect([...counts.dayNumber.subarray(0, 4)]).toEqual(
+      ["2021-12-31", "2022-01-02", "2022-01-02", "2022-01-04"].map((d) => toDayNumber(d)),
+    );
+    // Within a day, the order the units were appended in.
+    expect([...counts.unit.subarray(0, 4)]).toEqual([2, 1, 2, 1]);
     expect([...counts.raw.subarray(0, 4)]).toEqual([47, 30, 0, 11]);
     expect([...counts.northRaw.subarray(0, 4)]).toEqual([NO_SPLIT, 20, NO_SPLIT, NO_SPLIT]);
     expect([...counts.southRaw.subarray(0, 4)]).toEqual([NO_SPLIT, 10, NO_SPLIT, NO_SPLIT]);
-    expect([...counts.dayNumber.subarray(0, 4)]).toEqual([19_000, 19_000, 19_000, 19_002]);
   });
 
-  it("refuses malformed text, unknown units and days out of order", () => {
+  it("reads days across centuries and leap days as toDayNumber does", () => {
+    const days = ["1600-02-29", "1899-12-31", "1970-01-01", "2000-02-29", "2024-03-01", "2100-02-28"];
+    const counts = createAcceptedCounts(1);
+    appendPackedUnit({ counts, unit: 0, packed: days.map((d) => `${d} 11`).join(",") });
+    expect([...counts.dayNumber.subarray(0, counts.length)]).toEqual(days.map((d) => toDayNumber(d)));
+  });
+
+  it("refuses malformed text", () => {
     const counts = createAcceptedCounts(4);
-    expect(() => appendPackedDay({ counts, dayNumber: 1, packed: "100 4 5", unitOfKey })).toThrow(
-      /Malformed/,
-    );
-    expect(() => appendPackedDay({ counts, dayNumber: 1, packed: "7 4", unitOfKey })).toThrow(/Unknown unit/);
-    expect(() => appendPackedDay({ counts, dayNumber: 1, packed: "100 -4", unitOfKey })).toThrow(
-      /Unexpected character/,
-    );
-    appendCount(counts, { dayNumber: 5, unit: 0, raw: 20 });
-    expect(() => appendPackedDay({ counts, dayNumber: 4, packed: "100 4", unitOfKey })).toThrow(/day order/);
+    for (const packed of [
+      "2022-01-02 4 5",
+      "2022-01-02",
+      "2022-01-02 -4",
+      "2022/01/02 4",
+      "2022-13-02 4",
+      "2022-01-02 4;",
+    ])
+      expect(() => appendPackedUnit({ counts, unit: 0, packed }), packed).toThrow(RangeError);
+  });
+
+  it("sorts an empty set", () => {
+    expect(sortCountsByDay(createAcceptedCounts(0)).length).toBe(0);
   });
 });
 

@@ -1,4 +1,4 @@
-import { listSeriesPageCached } from "@/db/queries/series-cache";
+import { getSeriesPageJson } from "@/db/queries/series-cache";
 import { exportSeriesCsv } from "@/db/queries/series-read";
 import { ROLES } from "@/lib/auth/roles";
 import { requireRole } from "@/lib/auth/session";
@@ -36,13 +36,7 @@ export const GET = handleRoute(async (request: Request, context: Context) => {
     });
   }
 
-  const { rows, total } = await listSeriesPageCached({ kind: path.kind, query });
-  return Response.json({
-    data: rows,
-    page: query.page,
-    pageSize: query.pageSize,
-    total,
-    sort: `${query.sort.column}:${query.sort.direction}`,
-    hemisphere: query.hemisphere,
+  return new Response(await getSeriesPageJson({ kind: path.kind, query }), {
+    headers: { "content-type": "application/json" },
   });
 });

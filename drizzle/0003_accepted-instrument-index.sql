@@ -1,0 +1,1 @@
+CREATE INDEX `observations_accepted_instrument_idx` ON `observations` (`instrument_id`,`ut_date`,`groups`,`spots`,`north_groups`,`north_spots`,`south_groups`,`south_spots`) WHERE status = 'accepted';

@@ -39,7 +39,26 @@ function tidy(schema: unknown): unknown {
 }
 
 function convert(schema: z.ZodType, io: "input" | "output"): JsonSchema {
-  return tidy(z.toJSONSchema(schema, { io, unrepresentable: "any", reused: "inline" })) as JsonSchema;
+  return tidy(
+    z.toJSONSchema(schema, {
+      io,
+      unrepresentable: "any",
+      reused: "inline",
+      override: describeCheckedUnknown,
+    }),
+  ) as JsonSchema;
+}
+
+/**
+ * Form fields that must tell "missing" from "not a number" take anything
+ * (z.unknown) and pipe it into a number; their input side alone would read
+ * as "any value". What they accept is what the pipe's far end accepts.
+ */
+function describeCheckedUnknown({ zodSchema, jsonSchema }: { zodSchema: unknown; jsonSchema: JsonSchema }) {
+  const def = (zodSchema as z.ZodType)._zod.def as { type: string; in?: z.ZodType; out?: z.ZodType };
+  if (def.type !== "pipe" || !def.in || !def.out || Object.keys(jsonSchema).length > 0) return;
+  const inner = (def.in._zod.def as { type: string }).type;
+  if (inner === "unknown" || inner === "any") Object.assign(jsonSchema, convert(def.out, "input"));
 }
 
 /** Response schemas named in components, so each is written once and referenced. */
@@ -67,9 +86,11 @@ export function describeParameters(
   where: "query" | "path",
   notes: Record<string, string> = {},
   alsoRequired: string[] = [],
+  alsoOptional: string[] = [],
 ): OpenApiParameter[] {
   const json = convert(schema, "input") as { properties?: Record<string, JsonSchema>; required?: string[] };
   const required = new Set([...(json.required ?? []), ...alsoRequired]);
+  for (const name of alsoOptional) required.delete(name);
   return Object.entries(json.properties ?? {}).map(([name, property]) => {
     const { description: own, ...rest } = property as { description?: string };
     const description = notes[name] ?? own ?? FIELD_NOTES[name];
@@ -109,7 +130,9 @@ function buildOperation(
 ) {
   const parameters: OpenApiParameter[] = [
     ...(route.pathParams ? describeParameters(route.pathParams, "path", route.notes) : []),
-    ...(route.query ? describeParameters(route.query, "query", route.notes, route.alsoRequired) : []),
+    ...(route.query
+      ? describeParameters(route.query, "query", route.notes, route.alsoRequired, route.alsoOptional)
+      : []),
   ];
   if (route.idempotent) {
     parameters.push({
@@ -133,9 +156,22 @@ function buildOperation(
     }
     for (const other of response.otherTypes ?? [])
       content[other.contentType] = { schema: {}, description: other.description };
+    const headers = Object.entries(response.headers ?? {}).map(([name, description]) => [
+      name,
+      { description, schema: { type: "string" } },
+    ]);
     responses[status] = {
       description: response.description,
+      ...(headers.length ? { headers: Object.fromEntries(headers) } : {}),
       ...(Object.keys(content).length ? { content } : {}),
+    };
+  }
+  // A reused Idempotency-Key answers 409 on any write that accepts one.
+  if (route.idempotent && !responses["409"]) {
+    responses["409"] = {
+      description:
+        "This Idempotency-Key was used for a different request, or its first request is still running.",
+      content: errorContent,
     };
   }
   const errors = route.scope === "none" ? [] : [400, 401, 403, 404, 429];
@@ -253,6 +289,6 @@ export function formatCurlExample({ route, origin }: { route: ApiRoute; origin: 
   } else if (route.example.body !== undefined) {
     lines.push(`  -H "Content-Type: application/json"`, `  -d '${JSON.stringify(route.example.body)}'`);
   }
-  if (route.path.startsWith("/api/v1/exports") || route.scope === "session") lines.push("  -OJ");
+  if (route.curlSave) lines.push(`  ${route.curlSave}`);
   return lines.join(" \\\n");
 }

@@ -21,17 +21,44 @@ import { seriesQuerySchema } from "@/lib/validation/series-query";
 import { solarOrientationQuerySchema } from "@/lib/validation/tracing";
 
 import {
+  CLASS_SESSION_COUNT_ROUTE,
+  INSTRUMENT_ROUTES,
+  OBSERVATION_DELETE_ROUTE,
+  TRACING_AND_PHOTO_ROUTES,
+} from "./routes-logbook";
+import {
+  DISK_TEMPLATE_ROUTE,
+  K_SETTINGS_READ_ROUTE,
+  REFERENCE_SERIES_LIST_ROUTE,
+  REVIEW_QUEUE_ROUTE,
+  SERIES_EXTRA_ROUTES,
+  TERM_TABLE_ROUTE,
+} from "./routes-network";
+import {
   dailySeriesPageSchema,
+  errorBodySchema,
   importResultSchema,
   kHistorySchema,
+  kSettingsViewSchema,
   monthlySeriesPageSchema,
   observationPageSchema,
   observationViewSchema,
+  referenceSeriesViewSchema,
+  reviewDecisionResultSchema,
   solarOrientationSchema,
   yearlySeriesPageSchema,
 } from "./schemas";
 
-export type ApiTag = "Observations" | "Imports and exports" | "Series and k" | "The Sun" | "Reference";
+export type ApiTag =
+  | "Observations"
+  | "Instruments"
+  | "Tracings and photos"
+  | "Imports and exports"
+  | "Review desk"
+  | "Series and k"
+  | "Classrooms"
+  | "The Sun"
+  | "Reference";
 
 export type ApiResponse = {
   description: string;
@@ -58,9 +85,13 @@ export type ApiRoute = {
   body?: { schema?: z.ZodType; contentType: string; description: string; name?: string };
   /** Writes accept Idempotency-Key. */
   idempotent?: boolean;
+  /** How the curl example saves a file answer (e.g. "-OJ", "-o tracing.png"). */
+  curlSave?: string;
   responses: Record<number, ApiResponse>;
   /** Parameters a cross-field rule makes required though the schema alone lets them be left out. */
   alsoRequired?: string[];
+  /** Parameters a preprocess step fills in when left out, though the converted schema calls them required. */
+  alsoOptional?: string[];
   /** Words for parameters and body fields, beside FIELD_NOTES (these win). */
   notes?: Record<string, string>;
   example: {
@@ -254,6 +285,9 @@ export const API_ROUTES: ApiRoute[] = [
     responses: { 200: { description: "The corrected observation.", schema: observationViewSchema } },
     example: { pathParams: { id: "<observation id>" }, body: exampleObservation },
   },
+  OBSERVATION_DELETE_ROUTE,
+  ...INSTRUMENT_ROUTES,
+  ...TRACING_AND_PHOTO_ROUTES,
   {
     operationId: "importLogbook",
     method: "post",
@@ -296,11 +330,12 @@ export const API_ROUTES: ApiRoute[] = [
       bodyText: "date,g,s,notes\n14/03/2026,3,17,thin cirrus\n15/03/2026,0,0,\n",
     },
   },
+  REVIEW_QUEUE_ROUTE,
   {
     operationId: "decideObservations",
     method: "post",
     path: "/api/v1/review/decisions",
-    tag: "Observations",
+    tag: "Review desk",
     summary: "Accept, query, reject or reopen observations (coordinators)",
     description:
       "Decides one or many observations from the Review desk, all or none. A query, a rejection or a reopening must carry a note saying why; at most 200 observations at a time.",
@@ -313,7 +348,13 @@ export const API_ROUTES: ApiRoute[] = [
       name: "ReviewDecision",
     },
     idempotent: true,
-    responses: { 200: { description: "Every observation was decided." } },
+    responses: {
+      200: { description: "Every observation was decided.", schema: reviewDecisionResultSchema },
+      409: {
+        description: "Some observations are not in a status this decision applies to; nothing was changed.",
+        schema: errorBodySchema,
+      },
+    },
     example: { body: { action: "query", observationIds: ["<observation id>"], note: "Was the sky clear?" } },
   },
   {
@@ -327,6 +368,7 @@ export const API_ROUTES: ApiRoute[] = [
     roles: ["observer", "student", "coordinator"],
     scope: "read",
     query: logbookExportQuerySchema,
+    curlSave: "-OJ",
     responses: {
       200: {
         description: "The file, as an attachment.",
@@ -352,6 +394,7 @@ export const API_ROUTES: ApiRoute[] = [
     roles: ["coordinator"],
     scope: "read",
     query: networkExportQuerySchema,
+    curlSave: "-OJ",
     responses: {
       200: {
         description: "The file, as an attachment.",
@@ -394,6 +437,8 @@ export const API_ROUTES: ApiRoute[] = [
     responses: { 200: { description: "The k history, oldest period first.", schema: kHistorySchema } },
     example: { pathParams: { id: "me" } },
   },
+  ...SERIES_EXTRA_ROUTES,
+  K_SETTINGS_READ_ROUTE,
   {
     operationId: "saveKSettings",
     method: "put",
@@ -410,7 +455,8 @@ export const API_ROUTES: ApiRoute[] = [
       description: "Every k setting.",
       name: "KSettings",
     },
-    responses: { 200: { description: "The settings as saved." } },
+    idempotent: true,
+    responses: { 200: { description: "The settings as saved.", schema: kSettingsViewSchema } },
     example: {
       body: {
         periodKind: "year",
@@ -423,6 +469,7 @@ export const API_ROUTES: ApiRoute[] = [
       },
     },
   },
+  REFERENCE_SERIES_LIST_ROUTE,
   {
     operationId: "importReferenceSeries",
     method: "post",
@@ -440,7 +487,7 @@ export const API_ROUTES: ApiRoute[] = [
       name: "ReferenceImport",
     },
     idempotent: true,
-    responses: { 201: { description: "The series was stored." } },
+    responses: { 201: { description: "The series was stored.", schema: referenceSeriesViewSchema } },
     example: {
       body: { name: "My reference", licence: "CC BY 4.0", csv: "date,value\n2026-03-14,42\n" },
     },
@@ -459,6 +506,9 @@ export const API_ROUTES: ApiRoute[] = [
     responses: { 200: { description: "The orientation.", schema: solarOrientationSchema } },
     example: { query: { at: "2026-03-14T09:30:00Z" } },
   },
+  DISK_TEMPLATE_ROUTE,
+  CLASS_SESSION_COUNT_ROUTE,
+  TERM_TABLE_ROUTE,
   {
     operationId: "downloadSnapshot",
     method: "get",
@@ -475,6 +525,7 @@ export const API_ROUTES: ApiRoute[] = [
         otherTypes: [{ contentType: "application/vnd.sqlite3", description: "The database file." }],
       },
     },
+    curlSave: "-OJ",
     example: {},
   },
   {
@@ -494,8 +545,12 @@ export const API_ROUTES: ApiRoute[] = [
 
 export const API_TAG_ORDER: ApiTag[] = [
   "Observations",
+  "Instruments",
+  "Tracings and photos",
   "Imports and exports",
+  "Review desk",
   "Series and k",
+  "Classrooms",
   "The Sun",
   "Reference",
 ];

@@ -293,6 +293,16 @@ export const instrumentInputSchema = z.discriminatedUnion(
 
 export type InstrumentInput = z.infer<typeof instrumentInputSchema>;
 
+/** Query of GET /api/v1/instruments: coordinators name the observer; owners leave it out (it is ignored). */
+export const instrumentListQuerySchema = z.object({
+  observerId: z
+    .string()
+    .trim()
+    .max(64, { error: "That is not an observer id." })
+    .optional()
+    .transform((v) => v || undefined),
+});
+
 function isPositive(value: number | undefined): value is number {
   return value !== undefined && Number.isFinite(value) && value > 0;
 }

@@ -1,6 +1,3 @@
-import { existsSync } from "node:fs";
-import path from "node:path";
-
 import { beforeAll, describe, expect, it } from "vitest";
 import type { z } from "zod";
 
@@ -30,6 +27,7 @@ import { importOptionsSchema } from "@/lib/validation/import";
 import { observationInputSchema } from "@/lib/validation/observation";
 import { observationListQuerySchema } from "@/lib/validation/observation-query";
 
+import { listApiRouteFiles, servesPath, toOpenApiPath } from "./api-route-files";
 import { apiRequest, makeUser } from "./support";
 
 type Doc = {
@@ -105,15 +103,63 @@ describe("GET /api/v1/openapi.json", () => {
     expect(doc.components.securitySchemes).toHaveProperty("bearerToken");
   });
 
-  it("documents only routes that exist in app/api", () => {
+  it("documents every method of every route handler under app/api/v1", () => {
+    const files = listApiRouteFiles();
+    expect(files.length).toBeGreaterThan(20);
+    const missing = files.flatMap((file) =>
+      file.methods
+        .filter(
+          (method) =>
+            !Object.entries(doc.paths).some(
+              ([documented, operations]) =>
+                servesPath(file, documented) && method.toLowerCase() in operations,
+            ),
+        )
+        .map((method) => `${method} ${toOpenApiPath(file.segments)} (${file.file})`),
+    );
+    expect(missing, "Add these to lib/api/routes.ts").toEqual([]);
+  });
+
+  it("documents only routes and methods that exist in app/api/v1", () => {
+    const files = listApiRouteFiles();
     for (const route of API_ROUTES) {
-      const folder = route.path
-        .replace(/\{(\w+)\}/g, "[$1]")
-        .replace(/^\/api\/v1\/series\/(daily|monthly|yearly)$/, "/api/v1/series/[kind]");
+      const served = files.filter((file) => servesPath(file, route.path));
+      expect(served, `${route.method} ${route.path}`).not.toEqual([]);
       expect(
-        existsSync(path.join(process.cwd(), "app", folder, "route.ts")),
-        `${route.method} ${route.path}`,
+        served.some((file) => file.methods.includes(route.method.toUpperCase() as never)),
+        `${route.method.toUpperCase()} ${route.path} is documented but not exported`,
       ).toBe(true);
+    }
+  });
+
+  it("says every write accepts Idempotency-Key, and documents it as a header", () => {
+    for (const route of API_ROUTES.filter((r) => r.method !== "get")) {
+      expect(route.idempotent, `${route.method} ${route.path}`).toBe(true);
+      const header = doc.paths[route.path]![route.method]!.parameters?.find((p) => p.in === "header");
+      expect(header?.name, `${route.method} ${route.path}`).toBe("Idempotency-Key");
+      expect(doc.paths[route.path]![route.method]!.responses, route.path).toHaveProperty("409");
+    }
+  });
+
+  it("gives every example in the terms of the schemas it illustrates", () => {
+    for (const route of API_ROUTES) {
+      const label = `${route.operationId} example`;
+      const check = (schema: z.ZodType | undefined, value: unknown, part: string) => {
+        if (schema === undefined || value === undefined) return;
+        const result = schema.safeParse(value);
+        expect(result.success, `${label} ${part}: ${JSON.stringify(result.error?.issues)}`).toBe(true);
+      };
+      check(route.pathParams, route.example.pathParams, "path");
+      check(route.query, route.example.query ?? {}, "query");
+      check(route.body?.schema, route.example.body, "body");
+      if (route.body) {
+        expect(
+          route.example.body !== undefined || route.example.bodyText !== undefined,
+          `${label} needs a body`,
+        ).toBe(true);
+      }
+      for (const name of route.pathParams ? keysOf(route.pathParams) : [])
+        expect(route.example.pathParams, `${label} path ${name}`).toHaveProperty(name);
     }
   });
 

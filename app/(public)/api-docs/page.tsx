@@ -83,26 +83,48 @@ function ParameterTable({
   );
 }
 
+type BodySchema = {
+  properties?: Record<string, Record<string, unknown>>;
+  required?: string[];
+  oneOf?: BodySchema[];
+};
+
+/** A body's fields; for a body of several shapes (an instrument, by kind), which shapes each field is in. */
 function bodyRows(route: ApiRoute) {
   if (!route.body?.schema) return [];
-  const json = describeBody(route.body.schema, route.notes) as {
-    properties?: Record<string, Record<string, unknown>>;
-    required?: string[];
-  };
-  const required = new Set(json.required ?? []);
-  return Object.entries(json.properties ?? {}).map(([name, schema]) => ({
-    name,
-    in: "body" as const,
-    required: required.has(name),
-    description: typeof schema.description === "string" ? schema.description : undefined,
-    schema,
-  }));
+  const json = describeBody(route.body.schema, route.notes) as BodySchema;
+  const shapes = json.oneOf ?? [json];
+  const labelOf = (shape: BodySchema) =>
+    Object.values(shape.properties ?? {}).find((p) => typeof p.const === "string")?.const as
+      string | undefined;
+  const names = [...new Set(shapes.flatMap((shape) => Object.keys(shape.properties ?? {})))];
+  return names.map((name) => {
+    const having = shapes.filter((shape) => shape.properties?.[name]);
+    const consts = having.map((shape) => shape.properties![name]!.const);
+    // The field that tells the shapes apart lists every value it takes.
+    const schema =
+      shapes.length > 1 && consts.every((c) => typeof c === "string")
+        ? { type: "string", enum: consts }
+        : having[0]!.properties![name]!;
+    const own = route.notes?.[name] ?? (typeof schema.description === "string" ? schema.description : "");
+    const only =
+      having.length < shapes.length ? `Only for ${having.map(labelOf).filter(Boolean).join(", ")}.` : "";
+    return {
+      name,
+      in: "body" as const,
+      required: having.length === shapes.length && having.every((shape) => shape.required?.includes(name)),
+      description: [own, only].filter(Boolean).join(" ") || undefined,
+      schema,
+    };
+  });
 }
 
 function Endpoint({ route, origin }: { route: ApiRoute; origin: string }) {
   const params = [
     ...(route.pathParams ? describeParameters(route.pathParams, "path", route.notes) : []),
-    ...(route.query ? describeParameters(route.query, "query", route.notes, route.alsoRequired) : []),
+    ...(route.query
+      ? describeParameters(route.query, "query", route.notes, route.alsoRequired, route.alsoOptional)
+      : []),
     ...bodyRows(route),
   ];
   const who =
@@ -168,8 +190,8 @@ function Endpoint({ route, origin }: { route: ApiRoute; origin: string }) {
           ))}
           {route.scope !== "none" ? (
             <li className="text-xs text-ink-600">
-              Errors: 400, 401, 403, 404{route.body ? ", 413, 415" : ""}, 429, each as{" "}
-              {"{ error: { code, message, issues? } }"}.
+              Errors: 400, 401, 403, 404{route.idempotent ? ", 409 (a reused Idempotency-Key)" : ""}
+              {route.body ? ", 413, 415" : ""}, 429, each as {"{ error: { code, message, issues? } }"}.
             </li>
           ) : null}
         </ul>

@@ -8,7 +8,7 @@ import { invalidInput } from "@/lib/http/errors";
 import { withIdempotency } from "@/lib/http/idempotency";
 import { readJsonBody } from "@/lib/http/read-json";
 import { handleRoute } from "@/lib/http/respond";
-import { instrumentInputSchema } from "@/lib/validation/instrument";
+import { instrumentInputSchema, instrumentListQuerySchema } from "@/lib/validation/instrument";
 
 /**
  * The caller's own instruments, in use first then archived. Coordinators (and
@@ -16,8 +16,11 @@ import { instrumentInputSchema } from "@/lib/validation/instrument";
  */
 export const GET = handleRoute(async (request: Request) => {
   const reader = await requireInstrumentReader({ request });
-  const observerId = new URL(request.url).searchParams.get("observerId") ?? undefined;
-  return Response.json({ data: await listInstrumentsForReader({ reader, observerId }) });
+  const parsed = instrumentListQuerySchema.safeParse(Object.fromEntries(new URL(request.url).searchParams));
+  if (!parsed.success) throw invalidInput(parsed.error, "The query string needs attention.");
+  return Response.json({
+    data: await listInstrumentsForReader({ reader, observerId: parsed.data.observerId }),
+  });
 });
 
 /** Adds an instrument. Lengths are millimetres (the form converts inches first). Honours Idempotency-Key. */

@@ -1,6 +1,7 @@
 import { checkKSettingsTargets, getKSettings, saveKSettings } from "@/db/queries/k";
 import { requireRole } from "@/lib/auth/session";
 import { AppError, invalidInput } from "@/lib/http/errors";
+import { withIdempotency } from "@/lib/http/idempotency";
 import { readJsonBody } from "@/lib/http/read-json";
 import { handleRoute } from "@/lib/http/respond";
 import { kSettingsSchema } from "@/lib/validation/k-settings";
@@ -16,8 +17,9 @@ export const GET = handleRoute(async (request: Request) => {
  * recompute, which the coordinator starts separately.
  */
 export const PUT = handleRoute(async (request: Request) => {
-  await requireRole(["coordinator"], { request });
-  const parsed = kSettingsSchema.safeParse(await readJsonBody(request));
+  const user = await requireRole(["coordinator"], { request });
+  const body = await readJsonBody(request);
+  const parsed = kSettingsSchema.safeParse(body);
   if (!parsed.success) throw invalidInput(parsed.error);
   const { pilotExists, referenceExists } = await checkKSettingsTargets(parsed.data);
   const issues = [
@@ -32,6 +34,8 @@ export const PUT = handleRoute(async (request: Request) => {
         ]),
   ];
   if (issues.length > 0) throw new AppError("invalid_input", "Some fields need attention.", { issues });
-  await saveKSettings({ input: parsed.data });
-  return Response.json(await getKSettings());
+  return withIdempotency({ request, userId: user.id, scope: "PUT /api/v1/k-settings", body }, async () => {
+    await saveKSettings({ input: parsed.data });
+    return { status: 200, body: await getKSettings() };
+  });
 });

@@ -35,10 +35,18 @@ export const PUT = handleRoute(async (request: Request, context: Context) => {
   );
 });
 
-/** Only an instrument no observation uses can be deleted; others answer 409 and can be archived. */
+/**
+ * Only an instrument no observation uses can be deleted; others answer 409 and can be archived.
+ * Honours Idempotency-Key: a retried delete gets its 204 again rather than a 404.
+ */
 export const DELETE = handleRoute(async (request: Request, context: Context) => {
-  const { observer } = await requireObserver(undefined, { request });
+  const { user, observer } = await requireObserver(undefined, { request });
   const { id } = await context.params;
-  await removeInstrument({ observerId: observer.id, instrumentId: id });
-  return new Response(null, { status: 204 });
+  return withIdempotency(
+    { request, userId: user.id, scope: `DELETE /api/v1/instruments/${id}`, body: null },
+    async () => {
+      await removeInstrument({ observerId: observer.id, instrumentId: id });
+      return { status: 204, body: undefined };
+    },
+  );
 });

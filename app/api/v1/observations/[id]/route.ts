@@ -31,22 +31,32 @@ export const PUT = handleRoute(async (request: Request, context: Context) => {
   const body = await readJsonBody(request);
   const parsed = observationInputSchema.safeParse(body);
   if (!parsed.success) throw invalidInput(parsed.error);
-  return withIdempotency({ request, userId: user.id, scope: `PUT /api/v1/observations/${id}`, body }, async () => ({
-    status: 200,
-    body: await reviseObservation({ observerId: observer.id, observationId: id, input: parsed.data }),
-  }));
+  return withIdempotency(
+    { request, userId: user.id, scope: `PUT /api/v1/observations/${id}`, body },
+    async () => ({
+      status: 200,
+      body: await reviseObservation({ observerId: observer.id, observationId: id, input: parsed.data }),
+    }),
+  );
 });
 
 /**
  * Deletes the caller's own observation with its photos. The photo files go
  * first: if the store cannot be reached nothing is deleted (and the caller
  * is told), so no file is ever left behind without its observation.
+ * Honours Idempotency-Key: a retried delete gets its 204 again rather than a 404.
  */
 export const DELETE = handleRoute(async (request: Request, context: Context) => {
-  const { observer } = await requireObserver(undefined, { request });
+  const { user, observer } = await requireObserver(undefined, { request });
   const { id } = await context.params;
-  if (!(await getObservationOfObserver({ observerId: observer.id, observationId: id }))) throw notFound();
-  await deleteStoredFiles({ keys: await listPhotoKeysOfObservation({ observationId: id }) });
-  if (!(await deleteObservationWithPhotos({ observerId: observer.id, observationId: id }))) throw notFound();
-  return new Response(null, { status: 204 });
+  return withIdempotency(
+    { request, userId: user.id, scope: `DELETE /api/v1/observations/${id}`, body: null },
+    async () => {
+      if (!(await getObservationOfObserver({ observerId: observer.id, observationId: id }))) throw notFound();
+      await deleteStoredFiles({ keys: await listPhotoKeysOfObservation({ observationId: id }) });
+      if (!(await deleteObservationWithPhotos({ observerId: observer.id, observationId: id })))
+        throw notFound();
+      return { status: 204, body: undefined };
+    },
+  );
 });

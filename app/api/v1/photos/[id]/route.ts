@@ -2,6 +2,7 @@ import { deletePhotoRow, findOwnPhoto, findPhotoForViewer } from "@/db/queries/p
 import { ROLES } from "@/lib/auth/roles";
 import { requireObserver, requireRole } from "@/lib/auth/session";
 import { AppError } from "@/lib/http/errors";
+import { withIdempotency } from "@/lib/http/idempotency";
 import { handleRoute } from "@/lib/http/respond";
 import { deleteStoredFiles } from "@/lib/photo-store/storage";
 
@@ -31,15 +32,23 @@ export const GET = handleRoute(async (request: Request, context: Context) => {
   });
 });
 
-/** The owner removes a photo: its files first (so none is left behind), then its row. */
+/**
+ * The owner removes a photo: its files first (so none is left behind), then its row.
+ * Honours Idempotency-Key: a retried delete gets its 204 again rather than a 404.
+ */
 export const DELETE = handleRoute(async (request: Request, context: Context) => {
-  const { observer } = await requireObserver(undefined, { request });
+  const { user, observer } = await requireObserver(undefined, { request });
   const { id } = await context.params;
-  const photo = await findOwnPhoto({ observerId: observer.id, photoId: id });
-  if (!photo) throw notFound();
-  await deleteStoredFiles({
-    keys: photo.thumbnailKey ? [photo.fileKey, photo.thumbnailKey] : [photo.fileKey],
-  });
-  await deletePhotoRow({ photoId: photo.id });
-  return new Response(null, { status: 204 });
+  return withIdempotency(
+    { request, userId: user.id, scope: `DELETE /api/v1/photos/${id}`, body: null },
+    async () => {
+      const photo = await findOwnPhoto({ observerId: observer.id, photoId: id });
+      if (!photo) throw notFound();
+      await deleteStoredFiles({
+        keys: photo.thumbnailKey ? [photo.fileKey, photo.thumbnailKey] : [photo.fileKey],
+      });
+      await deletePhotoRow({ photoId: photo.id });
+      return { status: 204, body: undefined };
+    },
+  );
 });

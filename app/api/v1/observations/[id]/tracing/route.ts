@@ -2,6 +2,7 @@ import { findTracingForReader } from "@/db/queries/tracings";
 import { ROLES } from "@/lib/auth/roles";
 import { requireObserver, requireRole } from "@/lib/auth/session";
 import { AppError, invalidInput } from "@/lib/http/errors";
+import { withIdempotency } from "@/lib/http/idempotency";
 import { readJsonBody } from "@/lib/http/read-json";
 import { handleRoute } from "@/lib/http/respond";
 import { saveObservationTracing } from "@/lib/tracer/save";
@@ -34,13 +35,21 @@ export const GET = handleRoute(async (request: Request, context: Context) => {
   });
 });
 
-/** Saves the caller's own tracing, its groups and the observation's counts together. */
+/**
+ * Saves the caller's own tracing, its groups and the observation's counts together.
+ * Honours Idempotency-Key: a retried save gets its first answer, not a stale-revision 409.
+ */
 export const PUT = handleRoute(async (request: Request, context: Context) => {
-  const { observer } = await requireObserver(undefined, { request });
+  const { user, observer } = await requireObserver(undefined, { request });
   const { id } = await context.params;
   const body = await readJsonBody(request, { maxBytes: MAX_SAVE_REQUEST_BYTES });
   const parsed = saveTracingRequestSchema.safeParse(body);
   if (!parsed.success) throw invalidInput(parsed.error);
-  const saved = await saveObservationTracing({ observerId: observer.id, observationId: id, ...parsed.data });
-  return Response.json(saved);
+  return withIdempotency(
+    { request, userId: user.id, scope: `PUT /api/v1/observations/${id}/tracing`, body },
+    async () => ({
+      status: 200,
+      body: await saveObservationTracing({ observerId: observer.id, observationId: id, ...parsed.data }),
+    }),
+  );
 });

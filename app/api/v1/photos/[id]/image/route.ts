@@ -1,5 +1,3 @@
-import { z } from "zod";
-
 import { findPhotoForViewer } from "@/db/queries/photos";
 import { ROLES } from "@/lib/auth/roles";
 import { requireRole } from "@/lib/auth/session";
@@ -8,14 +6,9 @@ import { handleRoute } from "@/lib/http/respond";
 import { MAX_PHOTO_BYTES } from "@/lib/photo/limits";
 import { makeViewableCopy } from "@/lib/photo-store/inspect";
 import { readStoredFile, signFileUrl, SIGNED_URL_TTL_S } from "@/lib/photo-store/storage";
+import { photoImageQuerySchema } from "@/lib/validation/photo";
 
 type Context = { params: Promise<{ id: string }> };
-
-const querySchema = z.object({
-  variant: z
-    .enum(["original", "view", "thumbnail"], { error: "variant is original, view or thumbnail." })
-    .default("view"),
-});
 
 /**
  * The only way to a photo's pixels. Files are private at the store; after
@@ -26,7 +19,7 @@ const querySchema = z.object({
 export const GET = handleRoute(async (request: Request, context: Context) => {
   const user = await requireRole(ROLES, { request });
   const { id } = await context.params;
-  const parsed = querySchema.safeParse(Object.fromEntries(new URL(request.url).searchParams));
+  const parsed = photoImageQuerySchema.safeParse(Object.fromEntries(new URL(request.url).searchParams));
   if (!parsed.success) throw invalidInput(parsed.error, "The query string needs attention.");
   const photo = await findPhotoForViewer({ viewer: user, photoId: id });
   if (!photo) throw new AppError("not_found", "No such photo.");

@@ -87,7 +87,6 @@ export async function openImportSession({ observerId }: { observerId: string }) 
     // Built once after loading: cheaper than keeping it up to date row by row.
     if (indexed) return;
     await tx.execute(`CREATE INDEX temp.${STAGING}_day ON ${STAGING} (ut_date, instrument_id, line)`);
-    await tx.execute(`CREATE INDEX temp.${STAGING}_key ON ${STAGING} (import_key)`);
     indexed = true;
   };
 
@@ -126,7 +125,6 @@ export async function openImportSession({ observerId }: { observerId: string }) 
 
     /** Lines whose exact content was imported before: skipped, so a re-import adds nothing twice. */
     async markAlreadyImported(): Promise<number> {
-      await ensureIndexed();
       const result = await tx.execute({
         sql: `UPDATE ${STAGING} SET skip = 1 WHERE import_key IN (
                 SELECT import_key FROM observations WHERE observer_id = ? AND import_key IS NOT NULL)`,
@@ -138,6 +136,13 @@ export async function openImportSession({ observerId }: { observerId: string }) 
     /** Later lines that repeat an earlier line's day and instrument. */
     async findRepeatedDays({ limit }: { limit: number }): Promise<{ clashes: LineClash[]; total: number }> {
       await ensureIndexed();
+      // Counting first walks the index in order with no per-row work; a
+      // good file (the usual case) needs nothing more.
+      const counted = await tx.execute(
+        `SELECT coalesce(sum(n - 1), 0) AS total FROM (
+           SELECT count(*) AS n FROM ${STAGING} GROUP BY ut_date, instrument_id HAVING n > 1)`,
+      );
+      if (Number(counted.rows[0]?.total ?? 0) === 0) return { clashes: [], total: 0 };
       const result = await tx.execute({
         sql: `SELECT line, ut_date, instrument_id, first_line, count(*) OVER () AS total FROM (
                 SELECT line, ut_date, instrument_id, min(line) OVER (PARTITION BY ut_date, instrument_id) AS first_line

@@ -44,10 +44,14 @@ const ISO_DATETIME =
 const TIME_PATTERN = /^(\d{1,2})[:h.](\d{2})(?:[:.](\d{2}))?$/i;
 const COMPACT_TIME = /^(\d{2})(\d{2})$/;
 
+const DAYS_IN_MONTH = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+
+/** The Gregorian calendar as Date.UTC counts it (which reads years 0–99 as 1900–1999). */
 function isCalendarDate({ year, month, day }: DateParts): boolean {
   if (month < 1 || month > 12 || day < 1) return false;
-  const daysInMonth = new Date(Date.UTC(year, month, 0)).getUTCDate();
-  return day <= daysInMonth;
+  const y = year >= 0 && year < 100 ? 1900 + year : year;
+  const leap = month === 2 && y % 4 === 0 && (y % 100 !== 0 || y % 400 === 0);
+  return day <= DAYS_IN_MONTH[month - 1]! + (leap ? 1 : 0);
 }
 
 function parseDatePart(text: string, format: Exclude<DateFormatId, "iso-datetime">): DateParts | null {
@@ -171,8 +175,23 @@ function spansForYear(timeZone: string, year: number): OffsetSpan[] {
   return spans;
 }
 
+// The year last looked up: a logbook's lines come in runs from one year.
+let recentYear: { timeZone: string; startMs: number; endMs: number; spans: OffsetSpan[] } | null = null;
+
 function zoneOffsetMs(timeZone: string, utcMs: number): number {
-  const spans = spansForYear(timeZone, new Date(utcMs).getUTCFullYear());
+  let spans: OffsetSpan[];
+  if (
+    recentYear &&
+    recentYear.timeZone === timeZone &&
+    utcMs >= recentYear.startMs &&
+    utcMs < recentYear.endMs
+  ) {
+    spans = recentYear.spans;
+  } else {
+    const year = new Date(utcMs).getUTCFullYear();
+    spans = spansForYear(timeZone, year);
+    recentYear = { timeZone, startMs: Date.UTC(year, 0, 1), endMs: Date.UTC(year + 1, 0, 1), spans };
+  }
   let offset = spans[0]!.offsetMs;
   for (const span of spans) {
     if (span.startMs <= utcMs) offset = span.offsetMs;

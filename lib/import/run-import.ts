@@ -4,7 +4,7 @@ import { hash, randomUUID } from "node:crypto";
 import { Transform, Writable, type Readable } from "node:stream";
 import { pipeline } from "node:stream/promises";
 
-import { CsvError, parse } from "csv-parse";
+import { CsvError } from "csv-parse";
 
 import {
   listImportInstruments,
@@ -19,6 +19,8 @@ import type { ObservationInput } from "@/lib/validation/observation";
 import { FIELD_LABELS, IMPORT_FIELDS } from "./columns";
 import { INLINE_FLAG_LIMIT, flagImportBatch, startImportFlagJob } from "./flag-import";
 import { makeRowConverter, type RowProblem } from "./convert-row";
+import { makeImportIdMaker } from "./import-ids";
+import { NumberedCsvParser, type NumberedRecords } from "./numbered-csv";
 import { DELIMITERS, DELIMITER_NAMES, inspectFileHead } from "./sniff";
 
 export type ImportProgress = {
@@ -88,6 +90,7 @@ export async function importLogbook({
     });
   }
   const convert = makeRowConverter({ options, instruments, now });
+  const makeImportId = makeImportIdMaker({ startMs: Date.now() });
   const widest = Math.max(...IMPORT_FIELDS.map((f) => options[f] ?? 0));
 
   const problems: RowProblem[] = [];
@@ -125,10 +128,9 @@ export async function importLogbook({
       done();
     },
   });
-  const parser = parse({
+  const parser = new NumberedCsvParser({
     delimiter: DELIMITERS[options.delimiter],
     bom: true,
-    info: true,
     relax_column_count: true,
     skip_empty_lines: true,
     skip_records_with_empty_values: true,
@@ -141,16 +143,17 @@ export async function importLogbook({
     let staged: StagedRow[] = [];
     let headerPending = options.header;
     let sawData = false;
-    // A plain Writable as the last stage: each record is handled
-    // synchronously, and only a full batch waits for the database.
+    // A plain Writable as the last stage: the records of each chunk are
+    // handled synchronously, and only a full batch waits for the database.
     const sink = new Writable({
       objectMode: true,
-      highWaterMark: 256,
-      write(entry: { info: { lines: number }; record: string[] }, _encoding, done) {
+      highWaterMark: 1,
+      write({ records, lines }: NumberedRecords, _encoding, done) {
         try {
           if (signal?.aborted)
             throw new AppError("bad_request", "The import was cancelled; nothing was stored.");
-          if (handleRecord(entry)) {
+          for (let i = 0; i < records.length; i++) handleRecord(records[i]!, lines[i]!);
+          if (staged.length >= STAGE_BATCH_ROWS) {
             const batch = staged;
             staged = [];
             session.stage(batch).then(() => done(), done);
@@ -163,13 +166,11 @@ export async function importLogbook({
       },
     });
 
-    /** Reads one record; true when a batch is ready to be staged. */
-    const handleRecord = ({ info, record }: { info: { lines: number }; record: string[] }): boolean => {
-      const line = startLine(info.lines, record);
+    const handleRecord = (record: string[], line: number) => {
       if (headerPending) {
         headerPending = false;
         checkWidth({ record, widest, line, options, what: "header" });
-        return false;
+        return;
       }
       if (!sawData) {
         sawData = true;
@@ -177,14 +178,13 @@ export async function importLogbook({
       }
       rowsRead++;
       const result = convert(record, line);
-      if (result.ok) staged.push(toStagedRow({ input: result.input, line }));
+      if (result.ok) staged.push(toStagedRow({ input: result.input, line, id: makeImportId(line) }));
       else {
         badRows++;
         note(result.problems);
       }
       if (rowsRead % PROGRESS_EVERY_ROWS === 0)
         onProgress?.({ phase: "reading", bytesRead, totalBytes, rowsRead });
-      return staged.length >= STAGE_BATCH_ROWS;
     };
 
     await pipeline(input, counter, parser, sink).catch((error: unknown) => {
@@ -267,15 +267,6 @@ export async function importLogbook({
   }
 }
 
-/** csv-parse counts the line a record ends on; a quoted note may span several. */
-function startLine(endLine: number, record: string[]): number {
-  let extra = 0;
-  for (const field of record) {
-    if (field.length > 0 && field.includes("\n")) extra += field.split("\n").length - 1;
-  }
-  return endLine - extra;
-}
-
 function checkWidth({
   record,
   widest,
@@ -342,7 +333,7 @@ function describeParseError(error: unknown): unknown {
   }
 }
 
-function toStagedRow({ input, line }: { input: ObservationInput; line: number }): StagedRow {
+function toStagedRow({ input, line, id }: { input: ObservationInput; line: number; id: string }): StagedRow {
   const observedAtMs = input.observedAt.getTime();
   const northGroups = input.northGroups ?? null;
   const northSpots = input.northSpots ?? null;
@@ -358,7 +349,7 @@ function toStagedRow({ input, line }: { input: ObservationInput; line: number })
   ).slice(0, 32);
   return {
     line,
-    id: randomUUID(),
+    id,
     instrumentId: input.instrumentId,
     observedAtMs,
     utDate: input.observedAt.toISOString().slice(0, 10),

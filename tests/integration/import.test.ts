@@ -433,6 +433,38 @@ describe("POST /api/v1/imports", () => {
     expect(flags.map((f) => f.reason)).toContain("far-from-network");
   });
 
+  it("names the line a bad row starts on, after blank lines and notes over several lines", async () => {
+    const csv =
+      'date,g,s,notes\n\n2014-02-01,1,2,"over\ntwo lines"\n2014-02-31,1,2,"and\nthree\nlines"\n\n2014-02-03,2,1,\n';
+    const res = await postCsv(csv, { userId: bob.user.id, q: query({ notes: "4" }, bob.instrument!.id) });
+    expect(res.status).toBe(400);
+    const paths = (await res.json()).error.issues.map((i: { path: string }) => i.path);
+    expect(paths).toEqual(["line 5.date", "line 9.spots"]);
+  });
+
+  it("gives imported counts time-ordered ids (version-7 UUIDs) that sort in file order", async () => {
+    // Not in date order, with a note over two lines: file order is line order.
+    const csv =
+      'date,g,s,notes\n2015-05-03,1,2,"first line,\nand a second"\n2015-05-01,2,5,\n2015-05-02,0,0,\n';
+    const before = Date.now();
+    const res = await postCsv(csv, { userId: bob.user.id, q: query({ notes: "4" }, bob.instrument!.id) });
+    expect(res.status).toBe(201);
+    const { batchId } = await res.json();
+    const rows = await getDb()
+      .select({ id: observations.id, utDate: observations.utDate })
+      .from(observations)
+      .where(eq(observations.importBatchId, batchId));
+    const sorted = [...rows].sort((a, b) => (a.id < b.id ? -1 : 1));
+    expect(sorted.map((r) => r.utDate)).toEqual(["2015-05-03", "2015-05-01", "2015-05-02"]);
+    for (const { id } of rows) {
+      // RFC 9562 §5.7: a 48-bit Unix-millisecond timestamp, version 7, variant binary 10.
+      expect(id).toMatch(/^[0-9a-f]{8}-[0-9a-f]{4}-7[0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/);
+      const stampMs = Number.parseInt(id.slice(0, 8) + id.slice(9, 13), 16);
+      expect(stampMs).toBeGreaterThanOrEqual(before);
+      expect(stampMs).toBeLessThanOrEqual(Date.now());
+    }
+  });
+
   it("honours Idempotency-Key", async () => {
     const csv = "date,g,s\n2017-01-01,1,1\n";
     const headers = { "idempotency-key": "import-once-0001" };

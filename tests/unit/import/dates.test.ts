@@ -36,6 +36,27 @@ describe("parseObservationTime", () => {
     expect(at("2024-03-17", "yyyy-mm-dd", "UTC", "25:00")).toContain("The time");
   });
 
+  it("knows which years have a 29 February (Gregorian rule, common practice)", () => {
+    expect(at("2024-02-29", "yyyy-mm-dd")).toBe("2024-02-29T12:00:00.000Z");
+    expect(at("2000-02-29", "yyyy-mm-dd")).toBe("2000-02-29T12:00:00.000Z");
+    expect(at("1900-02-29", "yyyy-mm-dd")).toContain("not a date");
+    expect(at("2100-02-29", "yyyy-mm-dd")).toContain("not a date");
+    expect(at("1700-02-29", "yyyy-mm-dd")).toContain("not a date");
+    expect(at("31.12.1999", "dd.mm.yyyy")).toBe("1999-12-31T12:00:00.000Z");
+    expect(at("31.11.1999", "dd.mm.yyyy")).toContain("not a date");
+  });
+
+  it("keeps each line's own offset when lines change year and zone", () => {
+    // Lines in file order: the offsets of one year must not carry over to the
+    // next line's year or zone. Europe/Berlin is UT+1 in winter, UT+2 in
+    // summer; Sydney UT+11 in January (common practice: IANA zone rules).
+    expect(at("2023-12-31", "yyyy-mm-dd", "Europe/Berlin", "23:30")).toBe("2023-12-31T22:30:00.000Z");
+    expect(at("2024-01-01", "yyyy-mm-dd", "Europe/Berlin", "00:30")).toBe("2023-12-31T23:30:00.000Z");
+    expect(at("2024-07-01", "yyyy-mm-dd", "Europe/Berlin", "12:00")).toBe("2024-07-01T10:00:00.000Z");
+    expect(at("2024-01-01", "yyyy-mm-dd", "Australia/Sydney", "12:00")).toBe("2024-01-01T01:00:00.000Z");
+    expect(at("2024-01-02", "yyyy-mm-dd", "Europe/Berlin", "12:00")).toBe("2024-01-02T11:00:00.000Z");
+  });
+
   it("turns local wall-clock times into UT across daylight-saving changes", () => {
     // Europe/London: GMT until 31 March 2024 01:00 UT, then BST (UT+1) (common practice: EU summer time rules).
     expect(at("2024-03-30", "yyyy-mm-dd", "Europe/London", "10:00")).toBe("2024-03-30T10:00:00.000Z");

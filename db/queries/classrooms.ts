@@ -541,6 +541,32 @@ export async function getSessionObservationOfObserver({
   return row ?? null;
 }
 
+/**
+ * The class session (with its classroom) that one of the observer's own
+ * counts was logged for, and the instrument the count is filed under; null
+ * for a count logged outside any session, or someone else's.
+ */
+export async function getSessionOfOwnObservation({
+  observerId,
+  observationId,
+}: {
+  observerId: string;
+  observationId: string;
+}) {
+  const [row] = await getDb()
+    .select({
+      session: classroomSessions,
+      classroom: classroomColumns,
+      instrumentId: observations.instrumentId,
+    })
+    .from(observations)
+    .innerJoin(classroomSessions, eq(classroomSessions.id, observations.classSessionId))
+    .innerJoin(classrooms, eq(classrooms.id, classroomSessions.classroomId))
+    .where(and(eq(observations.id, observationId), eq(observations.observerId, observerId)))
+    .limit(1);
+  return row ?? null;
+}
+
 /** The student's counts logged for class sessions, newest first, with the session's title. */
 export async function listSessionObservationsOfObserver({ observerId }: { observerId: string }) {
   return getDb()

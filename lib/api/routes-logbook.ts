@@ -86,7 +86,7 @@ export const OBSERVATION_DELETE_ROUTE: ApiRoute = {
   tag: "Observations",
   summary: "Delete one of your observations",
   description:
-    "Deletes the count with its tracing and photos. The photo files are deleted first: when the photo store cannot be reached nothing is deleted and the answer is 503.",
+    "Deletes the count with its tracing and photos. The photo files are deleted first: when the photo store cannot be reached nothing is deleted and the answer is 503. A student's class-session count can be deleted only while the session is open (409 afterwards).",
   roles: LOGGING_ROLES,
   scope: "read-submit",
   pathParams: observationPath,
@@ -241,7 +241,7 @@ export const TRACING_AND_PHOTO_ROUTES: ApiRoute[] = [
     tag: "Tracings and photos",
     summary: "Save the tracing of one of your observations",
     description:
-      "Stores the drawing, its groups and the observation's counts together, all or nothing. Positions and counts are measured on the server from the drawing (disk and orientation are required, every spot in a group); send counts only to override them. baseRevision is the revision you edited (0 for a new tracing): a stale one answers 409. A changed count goes back to the Review desk. At most 2 MB of drawing and a 4 MB PNG.",
+      "Stores the drawing, its groups and the observation's counts together, all or nothing. Positions and counts are measured on the server from the drawing (disk and orientation are required, every spot in a group); send counts only to override them. baseRevision is the revision you edited (0 for a new tracing): a stale one answers 409. A changed count goes back to the Review desk. A student's class-session count can be traced only while the session is open (409 afterwards). At most 2 MB of drawing and a 4 MB PNG.",
     roles: LOGGING_ROLES,
     scope: "read-submit",
     pathParams: observationPath,
@@ -263,7 +263,10 @@ export const TRACING_AND_PHOTO_ROUTES: ApiRoute[] = [
     },
     responses: {
       200: { description: "Saved; the new revision and what was measured.", schema: tracingSavedSchema },
-      409: { description: "The tracing was saved elsewhere since baseRevision.", schema: errorBodySchema },
+      409: {
+        description: "The tracing was saved elsewhere since baseRevision, or its class session has closed.",
+        schema: errorBodySchema,
+      },
     },
     example: { pathParams: { id: "<observation id>" }, body: { document: exampleTracing, baseRevision: 0 } },
   },

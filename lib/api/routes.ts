@@ -271,7 +271,7 @@ export const API_ROUTES: ApiRoute[] = [
     tag: "Observations",
     summary: "Correct one of your observations",
     description:
-      "Replaces every value (send the whole observation again). A corrected count goes back to the Review desk.",
+      "Replaces every value (send the whole observation again). A corrected count goes back to the Review desk. A student's class-session count keeps its session's instrument and time window and can be corrected only while the session is open (409 afterwards).",
     roles: OBSERVER_ROLES,
     scope: "read-submit",
     pathParams: observationPathSchema,

@@ -7,15 +7,14 @@ import {
   getSessionWithClassroom,
 } from "@/db/queries/classrooms";
 import type { ObservationView } from "@/db/queries/observations";
-import { formatUt } from "@/lib/format/time";
 import { AppError } from "@/lib/http/errors";
 import { submitObservation } from "@/lib/observations/submit";
 import type { ObservationInput } from "@/lib/validation/observation";
 
+import { assertObservedInWindow, describeWindow } from "./session-edit";
+
 export const ALREADY_LOGGED =
   "You have already logged your count for this session. Each student logs one count per session.";
-
-const hhmm = (at: Date) => at.toISOString().slice(11, 16);
 
 /**
  * A student's count for a class session. Refused, with nothing stored, when
@@ -23,7 +22,8 @@ const hhmm = (at: Date) => at.toISOString().slice(11, 16);
  * archived, the count arrives outside the session's window, its observation
  * time lies outside the window, or the student already logged one for the
  * session. The count is filed under the instrument set up for the session,
- * whatever the form sent.
+ * whatever the form sent. Changing the count later follows the same window
+ * (lib/classrooms/session-edit.ts).
  */
 export async function submitSessionCount({
   studentUserId,
@@ -49,18 +49,14 @@ export async function submitSessionCount({
   if (classroom.archivedAt)
     throw new AppError("conflict", "This classroom has finished for the term; no more counts can be logged.");
 
-  const window = `${session.day} ${hhmm(session.opensAt)}–${hhmm(session.closesAt)} UT`;
+  const window = describeWindow(session);
   if (now.getTime() < session.opensAt.getTime()) {
     throw new AppError("conflict", `“${session.title}” has not opened yet. Counts can be logged ${window}.`);
   }
   if (now.getTime() > session.closesAt.getTime()) {
     throw new AppError("conflict", `“${session.title}” has closed. Counts could be logged ${window}.`);
   }
-  const observedAt = input.observedAt.getTime();
-  if (observedAt < session.opensAt.getTime() || observedAt > session.closesAt.getTime()) {
-    const message = `Give the time you counted during the session (${window}); ${formatUt(input.observedAt)} is outside it.`;
-    throw new AppError("invalid_input", message, { issues: [{ path: "observedAt", message }] });
-  }
+  assertObservedInWindow({ session, observedAt: input.observedAt });
   if (await getSessionObservationOfObserver({ observerId, sessionId }))
     throw new AppError("conflict", ALREADY_LOGGED);
 

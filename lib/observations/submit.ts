@@ -4,15 +4,24 @@ import { createObservation, getObservationOfObserver, type ObservationView } fro
 import { getInstrumentOfObserver } from "@/db/queries/observers";
 import { flagNewObservation, resubmitObservation } from "@/db/queries/review";
 import type { ObservationSource } from "@/db/schema";
+import { checkCountRevision } from "@/lib/classrooms/session-edit";
 import { AppError } from "@/lib/http/errors";
 import { refreshSeriesAfterDecision } from "@/lib/review/decide";
 import type { ObservationInput } from "@/lib/validation/observation";
 
-async function assertOwnInstrument({ observerId, instrumentId }: { observerId: string; instrumentId: string }) {
+async function assertOwnInstrument({
+  observerId,
+  instrumentId,
+}: {
+  observerId: string;
+  instrumentId: string;
+}) {
   const instrument = await getInstrumentOfObserver({ observerId, instrumentId });
   if (!instrument) {
     throw new AppError("invalid_input", "Some fields need attention.", {
-      issues: [{ path: "instrumentId", message: "That instrument is not one of yours. Choose one from your list." }],
+      issues: [
+        { path: "instrumentId", message: "That instrument is not one of yours. Choose one from your list." },
+      ],
     });
   }
 }
@@ -38,16 +47,21 @@ export async function submitObservation({
   return created;
 }
 
-/** Replaces an observation's values; a corrected observation goes back to the review queue. */
+/**
+ * Replaces an observation's values; a corrected observation goes back to the
+ * review queue. A class-session count follows its session's rules (refused
+ * once the session has closed).
+ */
 export async function reviseObservation({
   observerId,
   observationId,
-  input,
+  input: sent,
 }: {
   observerId: string;
   observationId: string;
   input: ObservationInput;
 }): Promise<ObservationView> {
+  const input = await checkCountRevision({ observerId, observationId, input: sent });
   await assertOwnInstrument({ observerId, instrumentId: input.instrumentId });
   // Values, status, the "resubmitted" audit line and fresh flags change together.
   const revised = await resubmitObservation({ observerId, observationId, input });

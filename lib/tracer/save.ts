@@ -1,6 +1,7 @@
 import "server-only";
 
 import { findOwnTracing, RevisionConflict, saveTracing, type ObservationCounts } from "@/db/queries/tracings";
+import { assertSessionCountChangeable } from "@/lib/classrooms/session-edit";
 import { AppError, issuesFromZod } from "@/lib/http/errors";
 import { solarOrientation } from "@/lib/solar/ephemeris";
 import { observationInputSchema } from "@/lib/validation/observation";
@@ -73,6 +74,9 @@ export async function saveObservationTracing({
   const own = await findOwnTracing({ observerId, observationId });
   if (!own) throw notFound();
   const { observation } = own;
+  // A tracing carries the count's groups and may change its counts: a class
+  // session's count is traced only while the session is open.
+  await assertSessionCountChangeable({ observerId, observationId });
 
   const checked = checkTracingDocument(input);
   if (!checked.ok) {

@@ -14,7 +14,12 @@ import {
 } from "@/app/(classroom)/classrooms/[id]/actions";
 import { POST as postSessionCount } from "@/app/api/v1/classroom-sessions/[id]/observations/route";
 import { GET as exportTerm } from "@/app/api/v1/classrooms/[id]/term/route";
-import { GET as getObservation } from "@/app/api/v1/observations/[id]/route";
+import {
+  DELETE as deleteObservation,
+  GET as getObservation,
+  PUT as putObservation,
+} from "@/app/api/v1/observations/[id]/route";
+import { PUT as putTracing } from "@/app/api/v1/observations/[id]/tracing/route";
 import { getDb } from "@/db/client";
 import { insertSession } from "@/db/queries/classrooms";
 import {
@@ -45,6 +50,7 @@ import {
   loadStudentClass,
   loadTermComparison,
 } from "@/lib/classrooms/views";
+import { createEmptyTracing } from "@/lib/validation/tracing";
 
 import { apiRequest, makeUser, sessionCookie } from "./support";
 
@@ -133,6 +139,43 @@ async function postCount(
     { params: Promise.resolve({ id: sessionId }) },
   );
 }
+
+/** The three ways a student can change a count they logged: correct it, trace it, delete it. */
+const changeCount = {
+  async put(observationId: string, userId: string, body: unknown) {
+    return putObservation(
+      await apiRequest(`/api/v1/observations/${observationId}`, { method: "PUT", userId, body }),
+      { params: Promise.resolve({ id: observationId }) },
+    );
+  },
+  async trace(observationId: string, userId: string, baseRevision: number) {
+    // An empty disk (no spots) is a complete tracing: it sets the count to 0 groups, 0 spots.
+    const document = {
+      ...createEmptyTracing(),
+      disk: { cx: 500, cy: 500, r: 400, method: "drag" as const, limbPoints: [] },
+      orientation: {
+        mode: "drift" as const,
+        from: { x: 100, y: 950 },
+        to: { x: 700, y: 950 },
+        mirrored: false,
+      },
+    };
+    return putTracing(
+      await apiRequest(`/api/v1/observations/${observationId}/tracing`, {
+        method: "PUT",
+        userId,
+        body: { document, baseRevision },
+      }),
+      { params: Promise.resolve({ id: observationId }) },
+    );
+  },
+  async remove(observationId: string, userId: string) {
+    return deleteObservation(
+      await apiRequest(`/api/v1/observations/${observationId}`, { method: "DELETE", userId }),
+      { params: Promise.resolve({ id: observationId }) },
+    );
+  },
+};
 
 type Made = Awaited<ReturnType<typeof makeUser>>;
 let educatorA: Made;
@@ -869,6 +912,95 @@ describe("students: logging a count for a session", () => {
   });
 });
 
+describe("students: changing a session count", () => {
+  let lee: { userId: string; pin: string };
+  let session: Awaited<ReturnType<typeof insertSession>>;
+  let countId: string;
+
+  const storedCount = async () =>
+    (await db().select().from(observations).where(eq(observations.id, countId)))[0] ?? null;
+
+  beforeAll(async () => {
+    const [issued] = await enrolStudents({
+      educatorUserId: educatorB.user.id,
+      input: { classroomId: roomB.id, displayNames: ["Lee C."] },
+    });
+    lee = issued!;
+    const now = Date.now();
+    session = await makeSession(
+      roomB.id,
+      { opensAt: new Date(now - HOUR), closesAt: new Date(now + HOUR) },
+      "Changing",
+    );
+    const res = await postCount(session.id, lee.userId, count_({ groups: 2, spots: 8 }));
+    expect(res.status).toBe(201);
+    countId = (await res.json()).id;
+  });
+
+  it("lets the student correct, trace and keep the count while the session is open, under the session's rules", async () => {
+    const sessionInstrumentId = (await storedCount())!.instrumentId;
+    const corrected = await changeCount.put(
+      countId,
+      lee.userId,
+      count_({ groups: 3, spots: 11, instrumentId: "some-other-instrument" }),
+    );
+    expect(corrected.status).toBe(200);
+    // Still filed under the session's instrument, whatever the form sent.
+    expect(await storedCount()).toMatchObject({ groups: 3, spots: 11, instrumentId: sessionInstrumentId });
+
+    const outside = await changeCount.put(
+      countId,
+      lee.userId,
+      count_({ observedAt: new Date(Date.now() - 5 * HOUR).toISOString() }),
+    );
+    expect(outside.status).toBe(400);
+    expect((await outside.json()).error.issues[0].path).toBe("observedAt");
+    expect(await storedCount()).toMatchObject({ groups: 3, spots: 11 });
+
+    const traced = await changeCount.trace(countId, lee.userId, 0);
+    expect(traced.status).toBe(200);
+    expect(await storedCount()).toMatchObject({ groups: 0, spots: 0 });
+  });
+
+  it("refuses a correction, a tracing and a deletion once the session has closed, and changes nothing", async () => {
+    const now = Date.now();
+    await db()
+      .update(classroomSessions)
+      .set({ opensAt: new Date(now - 2 * HOUR), closesAt: new Date(now - 60_000) })
+      .where(eq(classroomSessions.id, session.id));
+    const before = await storedCount();
+
+    const corrected = await changeCount.put(countId, lee.userId, count_({ groups: 5, spots: 30 }));
+    expect(corrected.status).toBe(409);
+    expect((await corrected.json()).error.message).toMatch(
+      /^“Changing” closed at \d\d:\d\d UT on \d{4}-\d\d-\d\d, so its counts can no longer be changed or deleted\.$/,
+    );
+
+    const traced = await changeCount.trace(countId, lee.userId, 1);
+    expect(traced.status).toBe(409);
+    expect((await traced.json()).error.message).toContain("“Changing” closed at");
+
+    const removed = await changeCount.remove(countId, lee.userId);
+    expect(removed.status).toBe(409);
+    expect((await removed.json()).error.message).toContain("“Changing” closed at");
+
+    expect(await storedCount()).toEqual(before);
+  });
+
+  it("leaves the educator's view of the closed session and the student's own reading as they were", async () => {
+    const read = await getObservation(
+      await apiRequest(`/api/v1/observations/${countId}`, { userId: lee.userId }),
+      { params: Promise.resolve({ id: countId }) },
+    );
+    expect(read.status).toBe(200);
+    const view = await loadSessionComparison({
+      sessionId: session.id,
+      viewer: { role: "educator", userId: educatorB.user.id },
+    });
+    expect(view?.comparison?.rows.map((r) => r.displayName)).toContain("Lee C.");
+  });
+});
+
 describe("students versus other students and other classrooms", () => {
   it("cannot open another student's observation", async () => {
     const [avaRow] = await db()
@@ -1037,6 +1169,20 @@ describe("archiving at the end of term", () => {
     ).rejects.toThrow(CLASSROOM_ARCHIVED);
     const res = await postCount(openA.id, ben.userId, count_());
     expect(res.status).toBe(409);
+    // Ben's count in the still-open session is frozen with the classroom.
+    const [bensCount] = await db()
+      .select()
+      .from(observations)
+      .where(
+        and(
+          eq(observations.observerId, (await observerOf(ben.userId)).id),
+          eq(observations.classSessionId, openA.id),
+        ),
+      );
+    const correction = await changeCount.put(bensCount!.id, ben.userId, count_({ groups: 1, spots: 1 }));
+    expect(correction.status).toBe(409);
+    expect((await correction.json()).error.message).toContain("finished for the term");
+    expect((await changeCount.remove(bensCount!.id, ben.userId)).status).toBe(409);
     const schedule = await scheduleSessionAction(
       { ok: false },
       form({

@@ -7,6 +7,7 @@ import { TracingSummary } from "@/components/tracer/tracing-summary";
 import { getObservationOfObserver } from "@/db/queries/observations";
 import { getTracingSummary } from "@/db/queries/tracings";
 import { requireObserver } from "@/lib/auth/session";
+import { findSessionCountLock } from "@/lib/classrooms/session-edit";
 import { formatLocal, formatRelativeNumber, formatUt } from "@/lib/format/time";
 import { SEEING_LABELS } from "@/lib/validation/observation";
 
@@ -22,7 +23,10 @@ export default async function ObservationPage({ params }: { params: Promise<{ id
   const { user, observer } = await requireObserver();
   const obs = await getObservationOfObserver({ observerId: observer.id, observationId: id });
   if (!obs) notFound();
-  const tracing = await getTracingSummary({ observationId: obs.id });
+  const [tracing, sessionLock] = await Promise.all([
+    getTracingSummary({ observationId: obs.id }),
+    findSessionCountLock({ observerId: observer.id, observationId: obs.id }),
+  ]);
   const split = obs.northGroups !== null;
   const rows: Array<[string, React.ReactNode]> = [
     ["Observed", `${formatUt(obs.observedAt)} · ${formatLocal(obs.observedAt, observer.timeZone)} local`],
@@ -30,18 +34,32 @@ export default async function ObservationPage({ params }: { params: Promise<{ id
     ["Seeing", SEEING_LABELS[obs.seeing]],
     ["Groups (g)", obs.groups],
     ["Spots (s)", obs.spots],
-    ["Hemispheres", split ? `North ${obs.northGroups} g / ${obs.northSpots} s · South ${obs.southGroups} g / ${obs.southSpots} s` : "Not split"],
+    [
+      "Hemispheres",
+      split
+        ? `North ${obs.northGroups} g / ${obs.northSpots} s · South ${obs.southGroups} g / ${obs.southSpots} s`
+        : "Not split",
+    ],
     ["k", obs.kComputed ? obs.k.toFixed(3) : "1.0 (not computed yet)"],
     ["Status", <StatusBadge key="status" status={obs.status} />],
     ["Notes", obs.notes ?? "—"],
   ];
   return (
     <>
-      <PageHeader title={`Count of ${obs.utDate}`} lead={<Link href="/logbook" className="text-corona-700 underline">Back to the Logbook</Link>} />
+      <PageHeader
+        title={`Count of ${obs.utDate}`}
+        lead={
+          <Link href="/logbook" className="text-corona-700 underline">
+            Back to the Logbook
+          </Link>
+        }
+      />
       <div className="grid gap-6 md:grid-cols-[1fr_2fr]">
         <div className="rounded-lg bg-umbra p-6 text-corona-100">
           <p className="text-xs tracking-widest uppercase">Relative number</p>
-          <p className="mt-2 text-5xl font-semibold text-corona-300">{formatRelativeNumber(obs.relativeNumber)}</p>
+          <p className="mt-2 text-5xl font-semibold text-corona-300">
+            {formatRelativeNumber(obs.relativeNumber)}
+          </p>
           <p className="mt-2 text-sm">
             {obs.k.toFixed(2)} × (10 × {obs.groups} + {obs.spots})
           </p>
@@ -55,8 +73,13 @@ export default async function ObservationPage({ params }: { params: Promise<{ id
           ))}
         </dl>
       </div>
+      {sessionLock ? (
+        <p className="mt-6 rounded-lg border border-ink-100 bg-paper p-4 text-sm text-ink-700" role="note">
+          {sessionLock}
+        </p>
+      ) : null}
       <ReviewState observation={obs} observerId={observer.id} userId={user.id} />
-      <TracingSummary observationId={obs.id} tracing={tracing} counts={obs} editable />
+      <TracingSummary observationId={obs.id} tracing={tracing} counts={obs} editable={!sessionLock} />
       <PhotoSection observationId={obs.id} />
     </>
   );

@@ -8,6 +8,7 @@ import { TracerWithPhoto } from "@/components/photo/tracer-with-photo";
 import { listPhotosOfObservation } from "@/db/queries/photos";
 import { findOwnTracing } from "@/db/queries/tracings";
 import { requireObserver } from "@/lib/auth/session";
+import { findSessionCountLock } from "@/lib/classrooms/session-edit";
 import { formatUt } from "@/lib/format/time";
 
 export const metadata: Metadata = { title: "Disk tracer" };
@@ -19,6 +20,20 @@ export default async function TracePage({ params }: { params: Promise<{ id: stri
   const own = await findOwnTracing({ observerId: observer.id, observationId: id });
   if (!own) notFound();
   const { observation, tracing } = own;
+  const sessionLock = await findSessionCountLock({ observerId: observer.id, observationId: observation.id });
+  if (sessionLock) {
+    return (
+      <>
+        <PageHeader title={`Disk tracer · ${observation.utDate}`} />
+        <p className="rounded-lg border border-ink-100 bg-white p-6 text-sm text-ink-700">
+          {sessionLock}{" "}
+          <Link href={`/logbook/${observation.id}`} className="text-corona-700 underline">
+            Back to the count
+          </Link>
+        </p>
+      </>
+    );
+  }
   // The observation's newest photo opens as the background of a tracing that has none yet.
   const [photo] = await listPhotosOfObservation({ observationId: observation.id });
   return (

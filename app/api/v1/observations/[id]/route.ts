@@ -1,6 +1,7 @@
 import { getObservationOfObserver } from "@/db/queries/observations";
 import { deleteObservationWithPhotos, listPhotoKeysOfObservation } from "@/db/queries/photos";
 import { requireObserver } from "@/lib/auth/session";
+import { assertSessionCountChangeable } from "@/lib/classrooms/session-edit";
 import { AppError, invalidInput } from "@/lib/http/errors";
 import { withIdempotency } from "@/lib/http/idempotency";
 import { readJsonBody } from "@/lib/http/read-json";
@@ -43,7 +44,8 @@ export const PUT = handleRoute(async (request: Request, context: Context) => {
 /**
  * Deletes the caller's own observation with its photos. The photo files go
  * first: if the store cannot be reached nothing is deleted (and the caller
- * is told), so no file is ever left behind without its observation.
+ * is told), so no file is ever left behind without its observation. A class
+ * session's count is deleted only while the session is open.
  * Honours Idempotency-Key: a retried delete gets its 204 again rather than a 404.
  */
 export const DELETE = handleRoute(async (request: Request, context: Context) => {
@@ -53,6 +55,7 @@ export const DELETE = handleRoute(async (request: Request, context: Context) => 
     { request, userId: user.id, scope: `DELETE /api/v1/observations/${id}`, body: null },
     async () => {
       if (!(await getObservationOfObserver({ observerId: observer.id, observationId: id }))) throw notFound();
+      await assertSessionCountChangeable({ observerId: observer.id, observationId: id });
       await deleteStoredFiles({ keys: await listPhotoKeysOfObservation({ observationId: id }) });
       if (!(await deleteObservationWithPhotos({ observerId: observer.id, observationId: id })))
         throw notFound();

@@ -187,6 +187,8 @@ describe("an observer traces the disk and the counts reach the observation", () 
 
   it("prints a disk template for the day", async () => {
     const page = await newPage(context);
+    // The Disk template sits under "More" in the main navigation.
+    await page.getByRole("button", { name: "More" }).click();
     await page.getByRole("link", { name: "Disk template" }).first().click();
     await page.waitForURL("**/disk-template");
     const svg = await page.getByTestId("disk-template").innerHTML();

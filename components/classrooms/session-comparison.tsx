@@ -1,3 +1,4 @@
+import { StaticTable } from "@/components/ui/static-table";
 import type { SessionComparison } from "@/lib/classrooms/compare";
 
 import { ClassCountChart, formatNumber } from "./class-count-chart";
@@ -71,47 +72,44 @@ export function SessionComparisonView({
         networkValue={comparison.network?.value ?? null}
       />
 
-      <div className="overflow-x-auto">
-        <table className="w-full text-left text-sm" aria-label="Counts side by side">
-          <thead className="border-b border-ink-200 text-xs text-ink-500">
-            <tr>
-              <th className="py-2 pr-3 font-medium">Student</th>
-              <th className="py-2 pr-3 text-right font-medium">g</th>
-              <th className="py-2 pr-3 text-right font-medium">s</th>
-              <th className="py-2 pr-3 text-right font-medium">10g + s</th>
-              <th className="py-2 pr-3 text-right font-medium">From the median</th>
-              <th className="py-2 text-right font-medium">In per cent</th>
-            </tr>
-          </thead>
-          <tbody className="divide-y divide-ink-100">
-            {comparison.rows.map((r) => (
-              <tr
-                key={r.studentId}
-                className={r.studentId === ownStudentId ? "bg-corona-50 font-semibold" : undefined}
-              >
-                <td className="py-2 pr-3">
-                  {r.displayName}
-                  {r.studentId === ownStudentId ? " (you)" : ""}
-                </td>
-                <td className="py-2 pr-3 text-right tabular-nums">{r.groups}</td>
-                <td className="py-2 pr-3 text-right tabular-nums">{r.spots}</td>
-                <td className="py-2 pr-3 text-right font-semibold tabular-nums">{r.raw}</td>
-                <td className="py-2 pr-3 text-right tabular-nums">{signed(r.differenceFromMedian)}</td>
-                <td className="py-2 text-right tabular-nums">{percent(r.relativeDifference)}</td>
-              </tr>
-            ))}
-          </tbody>
-          <tfoot className="border-t border-ink-200 text-ink-700">
-            <tr>
-              <td className="py-2 pr-3 font-semibold">Class median</td>
-              <td className="py-2 pr-3 text-right tabular-nums">{formatNumber(median.groups)}</td>
-              <td className="py-2 pr-3 text-right tabular-nums">{formatNumber(median.spots)}</td>
-              <td className="py-2 pr-3 text-right font-semibold tabular-nums">{formatNumber(median.raw)}</td>
-              <td colSpan={2} />
-            </tr>
-          </tfoot>
-        </table>
-      </div>
+      <StaticTable
+        caption="Counts side by side"
+        look="plain"
+        rows={comparison.rows}
+        rowKey={(r) => r.studentId}
+        rowClassName={(r) => (r.studentId === ownStudentId ? "bg-corona-50 font-semibold" : undefined)}
+        columns={[
+          {
+            key: "student",
+            header: "Student",
+            cell: (r) => `${r.displayName}${r.studentId === ownStudentId ? " (you)" : ""}`,
+          },
+          { key: "g", header: "g", align: "right", cell: (r) => r.groups },
+          { key: "s", header: "s", align: "right", cell: (r) => r.spots },
+          { key: "raw", header: "10g + s", align: "right", className: "font-semibold", cell: (r) => r.raw },
+          {
+            key: "difference",
+            header: "From the median",
+            align: "right",
+            cell: (r) => signed(r.differenceFromMedian),
+          },
+          {
+            key: "percent",
+            header: "In per cent",
+            align: "right",
+            cell: (r) => percent(r.relativeDifference),
+          },
+        ]}
+        footer={
+          <tr>
+            <td className="py-2 pr-3 font-semibold">Class median</td>
+            <td className="py-2 pr-3 text-right tabular-nums">{formatNumber(median.groups)}</td>
+            <td className="py-2 pr-3 text-right tabular-nums">{formatNumber(median.spots)}</td>
+            <td className="py-2 pr-3 text-right font-semibold tabular-nums">{formatNumber(median.raw)}</td>
+            <td colSpan={2} />
+          </tr>
+        }
+      />
       <p className="text-xs text-ink-500">
         Everyone counted the same projected disk. Differences come from eyesight, experience, seeing and how
         each of us splits groups: exactly what a personal k corrects for. The network&apos;s value is already

@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import { headers } from "next/headers";
 import Link from "next/link";
 
+import { StaticTable, type StaticColumn } from "@/components/ui/static-table";
 import {
   describeBody,
   describeParameters,
@@ -31,55 +32,54 @@ function typeOf(schema: Record<string, unknown>): string {
   return `${type}${bounds.length ? ` (${bounds.join(", ")})` : ""}`;
 }
 
-function ParameterTable({
-  rows,
-}: {
-  rows: Array<
-    | OpenApiParameter
-    | { name: string; in: "body"; required: boolean; description?: string; schema: Record<string, unknown> }
-  >;
-}) {
+type ParameterRow =
+  | OpenApiParameter
+  | { name: string; in: "body"; required: boolean; description?: string; schema: Record<string, unknown> };
+
+const PARAMETER_COLUMNS: Array<StaticColumn<ParameterRow>> = [
+  {
+    key: "name",
+    header: "Name",
+    className: "font-mono text-xs whitespace-nowrap text-ink-900",
+    cell: (p) => (
+      <>
+        {p.name}
+        {p.required ? (
+          <span className="ml-1 text-caution-700" title="required">
+            *
+          </span>
+        ) : null}
+      </>
+    ),
+  },
+  { key: "in", header: "In", className: "text-xs text-ink-500", cell: (p) => p.in },
+  {
+    key: "type",
+    header: "Type",
+    className: "text-xs text-ink-700",
+    cell: (p) => (
+      <>
+        {typeOf(p.schema)}
+        {p.schema.default !== undefined ? (
+          <span className="block text-ink-500">default {String(p.schema.default)}</span>
+        ) : null}
+      </>
+    ),
+  },
+  { key: "meaning", header: "Meaning", className: "text-ink-700", cell: (p) => p.description },
+];
+
+function ParameterTable({ caption, rows }: { caption: string; rows: ParameterRow[] }) {
   return (
-    <table className="mt-2 w-full text-sm">
-      <thead className="text-left text-xs tracking-wide text-ink-500 uppercase">
-        <tr>
-          <th scope="col" className="py-1 pr-3 font-semibold">
-            Name
-          </th>
-          <th scope="col" className="py-1 pr-3 font-semibold">
-            In
-          </th>
-          <th scope="col" className="py-1 pr-3 font-semibold">
-            Type
-          </th>
-          <th scope="col" className="py-1 font-semibold">
-            Meaning
-          </th>
-        </tr>
-      </thead>
-      <tbody>
-        {rows.map((p) => (
-          <tr key={`${p.in}:${p.name}`} className="border-t border-ink-100 align-top">
-            <td className="py-1.5 pr-3 font-mono text-xs whitespace-nowrap text-ink-900">
-              {p.name}
-              {p.required ? (
-                <span className="ml-1 text-caution-700" title="required">
-                  *
-                </span>
-              ) : null}
-            </td>
-            <td className="py-1.5 pr-3 text-xs text-ink-500">{p.in}</td>
-            <td className="py-1.5 pr-3 text-xs text-ink-700">
-              {typeOf(p.schema)}
-              {p.schema.default !== undefined ? (
-                <span className="block text-ink-500">default {String(p.schema.default)}</span>
-              ) : null}
-            </td>
-            <td className="py-1.5 text-ink-700">{p.description}</td>
-          </tr>
-        ))}
-      </tbody>
-    </table>
+    <StaticTable
+      caption={caption}
+      columns={PARAMETER_COLUMNS}
+      rows={rows}
+      rowKey={(p) => `${p.in}:${p.name}`}
+      rowClassName={() => "align-top"}
+      density="compact"
+      className="mt-2"
+    />
   );
 }
 
@@ -174,7 +174,7 @@ function Endpoint({ route, origin }: { route: ApiRoute; origin: string }) {
           </>
         ) : null}
       </dl>
-      {params.length > 0 ? <ParameterTable rows={params} /> : null}
+      {params.length > 0 ? <ParameterTable caption={`Parameters of ${route.summary}`} rows={params} /> : null}
       <div className="mt-3 text-sm">
         <h4 className="text-xs font-semibold tracking-wide text-ink-500 uppercase">Answers</h4>
         <ul className="mt-1 flex flex-col gap-1">

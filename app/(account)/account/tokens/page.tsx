@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 
 import { PageHeader } from "@/components/layout/app-shell";
+import { StaticTable } from "@/components/ui/static-table";
 import { listApiTokensByUser } from "@/db/queries/api-tokens";
 import { requireRole } from "@/lib/auth/session";
 import { formatUt } from "@/lib/format/time";
@@ -45,47 +46,46 @@ export default async function ApiTokensPage() {
           <h2 id="your-tokens" className="mb-3 text-base font-semibold text-ink-900">
             Your tokens
           </h2>
-          {tokens.length === 0 ? (
-            <p className="rounded-lg border border-ink-100 bg-white p-6 text-sm text-ink-600">
-              You have no tokens yet. Create one on the left when a script needs to read your data or send
-              counts.
-            </p>
-          ) : (
-            <div className="overflow-x-auto rounded-lg border border-ink-100 bg-white shadow-sm">
-              <table className="min-w-full text-sm">
-                <caption className="sr-only">Your API tokens</caption>
-                <thead className="bg-ink-50 text-left text-xs tracking-wide text-ink-600 uppercase">
-                  <tr>
-                    {["Name", "Starts with", "May", "Created", "Last used", ""].map((h) => (
-                      <th key={h || "actions"} scope="col" className="px-3 py-2 font-semibold">
-                        {h}
-                      </th>
-                    ))}
-                  </tr>
-                </thead>
-                <tbody>
-                  {tokens.map((t) => (
-                    <tr key={t.id} className={`border-t border-ink-100 ${t.revokedAt ? "text-ink-400" : ""}`}>
-                      <td className="px-3 py-2 font-medium">{t.name}</td>
-                      <td className="px-3 py-2 font-mono text-xs">{t.prefix}…</td>
-                      <td className="px-3 py-2">{API_TOKEN_SCOPE_LABELS[t.scope]}</td>
-                      <td className="px-3 py-2 whitespace-nowrap">{formatUt(t.createdAt)}</td>
-                      <td className="px-3 py-2 whitespace-nowrap">
-                        {t.lastUsedAt ? formatUt(t.lastUsedAt) : "never"}
-                      </td>
-                      <td className="px-3 py-2 text-right">
-                        {t.revokedAt ? (
-                          <span className="text-xs">revoked {formatUt(t.revokedAt)}</span>
-                        ) : (
-                          <RevokeTokenButton tokenId={t.id} name={t.name} />
-                        )}
-                      </td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </div>
-          )}
+          <StaticTable
+            caption="Your API tokens"
+            rows={tokens}
+            rowKey={(t) => t.id}
+            rowClassName={(t) => (t.revokedAt ? "text-ink-400" : undefined)}
+            empty="You have no tokens yet. Create one on the left when a script needs to read your data or send counts."
+            columns={[
+              { key: "name", header: "Name", className: "font-medium", cell: (t) => t.name },
+              {
+                key: "prefix",
+                header: "Starts with",
+                className: "font-mono text-xs",
+                cell: (t) => `${t.prefix}…`,
+              },
+              { key: "scope", header: "May", cell: (t) => API_TOKEN_SCOPE_LABELS[t.scope] },
+              {
+                key: "created",
+                header: "Created",
+                className: "whitespace-nowrap",
+                cell: (t) => formatUt(t.createdAt),
+              },
+              {
+                key: "used",
+                header: "Last used",
+                className: "whitespace-nowrap",
+                cell: (t) => (t.lastUsedAt ? formatUt(t.lastUsedAt) : "never"),
+              },
+              {
+                key: "actions",
+                header: <span className="sr-only">Actions</span>,
+                align: "right",
+                cell: (t) =>
+                  t.revokedAt ? (
+                    <span className="text-xs">revoked {formatUt(t.revokedAt)}</span>
+                  ) : (
+                    <RevokeTokenButton tokenId={t.id} name={t.name} />
+                  ),
+              },
+            ]}
+          />
         </section>
       </div>
     </>

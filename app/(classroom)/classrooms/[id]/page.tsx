@@ -6,6 +6,7 @@ import { SessionStateBadge } from "@/components/classrooms/session-state-badge";
 import { PageHeader } from "@/components/layout/app-shell";
 import { SafetyNotice } from "@/components/safety-notice";
 import { ButtonLink } from "@/components/ui/button";
+import { StaticTable } from "@/components/ui/static-table";
 import {
   getClassroomOfEducator,
   listClassroomsOfEducator,
@@ -142,42 +143,41 @@ export default async function ClassroomPage({ params }: { params: Promise<{ id: 
             <h2 id="students-heading" className="text-lg font-semibold text-ink-950">
               Students ({members.length} of {classroom.capacity})
             </h2>
-            {members.length === 0 ? (
-              <p className="mt-2 text-sm text-ink-600">
-                No students yet. Enrol them below (you will get a printable sign-in card for each), or open
-                joining in the settings.
-              </p>
-            ) : (
-              <table className="mt-3 w-full text-left text-sm">
-                <thead className="text-xs text-ink-500">
-                  <tr>
-                    <th className="py-1 font-medium">Display name</th>
-                    <th className="py-1 font-medium">Session counts</th>
-                    <th className="py-1 font-medium">Enrolled</th>
-                    <th className="py-1 font-medium">
-                      <span className="sr-only">Actions</span>
-                    </th>
-                  </tr>
-                </thead>
-                <tbody className="divide-y divide-ink-100">
-                  {members.map((m) => (
-                    <tr key={m.userId}>
-                      <td className="py-2 font-medium text-ink-900">{m.displayName}</td>
-                      <td className="py-2">{m.sessionCounts}</td>
-                      <td className="py-2 text-ink-600">{m.joinedAt.toISOString().slice(0, 10)}</td>
-                      <td className="py-2">
-                        <StudentActions
-                          classroomId={id}
-                          student={{ userId: m.userId, displayName: m.displayName }}
-                          otherClassrooms={otherClassrooms}
-                          archived={archived}
-                        />
-                      </td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            )}
+            <StaticTable
+              caption="Students"
+              look="plain"
+              className="mt-3"
+              rows={members}
+              rowKey={(m) => m.userId}
+              empty="No students yet. Enrol them below (you will get a printable sign-in card for each), or open joining in the settings."
+              columns={[
+                {
+                  key: "name",
+                  header: "Display name",
+                  className: "font-medium text-ink-900",
+                  cell: (m) => m.displayName,
+                },
+                { key: "counts", header: "Session counts", cell: (m) => m.sessionCounts },
+                {
+                  key: "joined",
+                  header: "Enrolled",
+                  className: "text-ink-600",
+                  cell: (m) => m.joinedAt.toISOString().slice(0, 10),
+                },
+                {
+                  key: "actions",
+                  header: <span className="sr-only">Actions</span>,
+                  cell: (m) => (
+                    <StudentActions
+                      classroomId={id}
+                      student={{ userId: m.userId, displayName: m.displayName }}
+                      otherClassrooms={otherClassrooms}
+                      archived={archived}
+                    />
+                  ),
+                },
+              ]}
+            />
             {!archived ? (
               <div className="mt-5 border-t border-ink-100 pt-4">
                 <EnrolForm classroomId={id} free={Math.max(0, classroom.capacity - members.length)} />

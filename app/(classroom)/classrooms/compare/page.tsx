@@ -3,6 +3,7 @@ import Link from "next/link";
 
 import { formatNumber } from "@/components/classrooms/class-count-chart";
 import { PageHeader } from "@/components/layout/app-shell";
+import { StaticTable } from "@/components/ui/static-table";
 import { requirePageRole } from "@/lib/auth/page-guard";
 import { CLASS_MIN_SESSIONS } from "@/lib/classrooms/compare";
 import { loadClassComparison } from "@/lib/classrooms/views";
@@ -47,41 +48,46 @@ export default async function CompareClassesPage() {
               network value (ratio of sums). A class k from fewer than {CLASS_MIN_SESSIONS} days is a first
               look.
             </p>
-            <table className="mt-3 w-full text-left text-sm" aria-label="Classes">
-              <thead className="border-b border-ink-200 text-xs text-ink-500">
-                <tr>
-                  <th className="py-2 pr-3 font-medium">Class</th>
-                  <th className="py-2 pr-3 text-right font-medium">Sessions</th>
-                  <th className="py-2 pr-3 text-right font-medium">Counts</th>
-                  <th className="py-2 text-right font-medium">Class k</th>
-                </tr>
-              </thead>
-              <tbody className="divide-y divide-ink-100">
-                {view.classes.map((c) => (
-                  <tr key={c.id} className={c.own ? "bg-corona-50" : undefined}>
-                    <td className="py-2 pr-3 font-medium text-ink-900">
+            <StaticTable
+              caption="Classes"
+              look="plain"
+              className="mt-3"
+              rows={view.classes}
+              rowKey={(c) => c.id}
+              rowClassName={(c) => (c.own ? "bg-corona-50" : undefined)}
+              columns={[
+                {
+                  key: "class",
+                  header: "Class",
+                  className: "font-medium text-ink-900",
+                  cell: (c) => (
+                    <>
                       {c.label}
                       {c.own ? <span className="ml-1 text-xs text-ink-500">(yours)</span> : null}
-                    </td>
-                    <td className="py-2 pr-3 text-right tabular-nums">{c.sessions}</td>
-                    <td className="py-2 pr-3 text-right tabular-nums">{c.counts}</td>
-                    <td className="py-2 text-right tabular-nums">
-                      {c.classK.k === null ? (
-                        <span className="text-ink-500">no network days yet</span>
-                      ) : (
-                        <>
-                          <strong>{c.classK.k.toFixed(2)}</strong>
-                          {c.classK.sigma !== null ? (
-                            <span className="text-ink-500"> ± {c.classK.sigma.toFixed(2)}</span>
-                          ) : null}
-                          <span className="text-ink-500"> ({c.classK.n} days)</span>
-                        </>
-                      )}
-                    </td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+                    </>
+                  ),
+                },
+                { key: "sessions", header: "Sessions", align: "right", cell: (c) => c.sessions },
+                { key: "counts", header: "Counts", align: "right", cell: (c) => c.counts },
+                {
+                  key: "k",
+                  header: "Class k",
+                  align: "right",
+                  cell: (c) =>
+                    c.classK.k === null ? (
+                      <span className="text-ink-500">no network days yet</span>
+                    ) : (
+                      <>
+                        <strong>{c.classK.k.toFixed(2)}</strong>
+                        {c.classK.sigma !== null ? (
+                          <span className="text-ink-500"> ± {c.classK.sigma.toFixed(2)}</span>
+                        ) : null}
+                        <span className="text-ink-500"> ({c.classK.n} days)</span>
+                      </>
+                    ),
+                },
+              ]}
+            />
           </section>
           <section
             aria-labelledby="medians-heading"
@@ -90,40 +96,34 @@ export default async function CompareClassesPage() {
             <h2 id="medians-heading" className="text-lg font-semibold text-ink-950">
               Class median 10g + s per session day
             </h2>
-            {view.rows.length === 0 ? (
-              <p className="mt-2 text-sm text-ink-600">No counts yet in the classes taking part.</p>
-            ) : (
-              <div className="mt-3 overflow-x-auto">
-                <table className="w-full text-left text-sm" aria-label="Class medians by day">
-                  <thead className="border-b border-ink-200 text-xs text-ink-500">
-                    <tr>
-                      <th className="py-2 pr-3 font-medium">Day (UT)</th>
-                      {view.classes.map((c) => (
-                        <th key={c.id} className="py-2 pr-3 text-right font-medium">
-                          {c.label}
-                        </th>
-                      ))}
-                      <th className="py-2 text-right font-medium">Network</th>
-                    </tr>
-                  </thead>
-                  <tbody className="divide-y divide-ink-100">
-                    {view.rows.map((row) => (
-                      <tr key={row.day}>
-                        <td className="py-1.5 pr-3 tabular-nums">{row.day}</td>
-                        {row.values.map((v, i) => (
-                          <td key={i} className="py-1.5 pr-3 text-right tabular-nums">
-                            {v === null ? "" : formatNumber(v)}
-                          </td>
-                        ))}
-                        <td className="py-1.5 text-right text-ink-600 tabular-nums">
-                          {row.network === null ? "—" : formatNumber(row.network)}
-                        </td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </table>
-              </div>
-            )}
+            <StaticTable
+              caption="Class medians by day"
+              look="plain"
+              density="compact"
+              className="mt-3"
+              rows={view.rows}
+              rowKey={(row) => row.day}
+              empty="No counts yet in the classes taking part."
+              columns={[
+                { key: "day", header: "Day (UT)", cell: (row) => row.day },
+                ...view.classes.map((c, i) => ({
+                  key: c.id,
+                  header: c.label,
+                  align: "right" as const,
+                  cell: (row: (typeof view.rows)[number]) => {
+                    const v = row.values[i];
+                    return v == null ? "" : formatNumber(v);
+                  },
+                })),
+                {
+                  key: "network",
+                  header: "Network",
+                  align: "right",
+                  className: "text-ink-600",
+                  cell: (row) => (row.network === null ? "—" : formatNumber(row.network)),
+                },
+              ]}
+            />
           </section>
         </div>
       )}

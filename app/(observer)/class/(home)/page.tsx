@@ -5,6 +5,7 @@ import { SessionStateBadge } from "@/components/classrooms/session-state-badge";
 import { PageHeader } from "@/components/layout/app-shell";
 import { SafetyNotice } from "@/components/safety-notice";
 import { ButtonLink } from "@/components/ui/button";
+import { StaticTable } from "@/components/ui/static-table";
 import { getObserverByUserId } from "@/db/queries/observers";
 import { requirePageRole } from "@/lib/auth/page-guard";
 import { formatSessionWindow } from "@/lib/classrooms/session-state";
@@ -109,49 +110,44 @@ export default async function MyClassPage() {
             <h2 id="past-heading" className="text-lg font-semibold text-ink-950">
               Past sessions
             </h2>
-            {view.past.length === 0 ? (
-              <p className="mt-2 text-sm text-ink-600">
-                No past sessions yet. After each one you can compare your count with the class.
-              </p>
-            ) : (
-              <table className="mt-3 w-full text-left text-sm" aria-label="Past sessions">
-                <thead className="text-xs text-ink-500">
-                  <tr>
-                    <th className="py-1 font-medium">Session</th>
-                    <th className="py-1 font-medium">Day</th>
-                    <th className="py-1 text-right font-medium">My g</th>
-                    <th className="py-1 text-right font-medium">My s</th>
-                    <th className="py-1 text-right font-medium">10g + s</th>
-                    <th className="py-1 font-medium">
-                      <span className="sr-only">State</span>
-                    </th>
-                  </tr>
-                </thead>
-                <tbody className="divide-y divide-ink-100">
-                  {view.past.map((s) => (
-                    <tr key={s.id}>
-                      <td className="py-2">
-                        <Link
-                          href={`/class/sessions/${s.id}`}
-                          className="font-medium text-ink-900 hover:underline"
-                        >
-                          {s.title}
-                        </Link>
-                      </td>
-                      <td className="py-2 text-ink-600">{s.day}</td>
-                      <td className="py-2 text-right tabular-nums">{s.own?.groups ?? "—"}</td>
-                      <td className="py-2 text-right tabular-nums">{s.own?.spots ?? "—"}</td>
-                      <td className="py-2 text-right font-semibold tabular-nums">
-                        {s.own ? computeRawCount(s.own) : "missed"}
-                      </td>
-                      <td className="py-2 text-right">
-                        <SessionStateBadge state={s.state} />
-                      </td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            )}
+            <StaticTable
+              caption="Past sessions"
+              look="plain"
+              className="mt-3"
+              rows={view.past}
+              rowKey={(s) => s.id}
+              empty="No past sessions yet. After each one you can compare your count with the class."
+              columns={[
+                {
+                  key: "session",
+                  header: "Session",
+                  cell: (s) => (
+                    <Link
+                      href={`/class/sessions/${s.id}`}
+                      className="font-medium text-ink-900 hover:underline"
+                    >
+                      {s.title}
+                    </Link>
+                  ),
+                },
+                { key: "day", header: "Day", className: "text-ink-600", cell: (s) => s.day },
+                { key: "g", header: "My g", align: "right", cell: (s) => s.own?.groups ?? "—" },
+                { key: "s", header: "My s", align: "right", cell: (s) => s.own?.spots ?? "—" },
+                {
+                  key: "raw",
+                  header: "10g + s",
+                  align: "right",
+                  className: "font-semibold",
+                  cell: (s) => (s.own ? computeRawCount(s.own) : "missed"),
+                },
+                {
+                  key: "state",
+                  header: <span className="sr-only">State</span>,
+                  align: "right",
+                  cell: (s) => <SessionStateBadge state={s.state} />,
+                },
+              ]}
+            />
             <p className="mt-3 text-sm text-ink-600">
               All your counts, class or not, are in{" "}
               <Link href="/logbook" className="text-corona-700 underline">

@@ -3,6 +3,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 
 import { PageHeader } from "@/components/layout/app-shell";
+import { StaticTable, type StaticColumn } from "@/components/ui/static-table";
 import { getMonthReport } from "@/db/queries/series-read";
 import { requirePageRole } from "@/lib/auth/page-guard";
 import { ROLES } from "@/lib/auth/roles";
@@ -19,6 +20,26 @@ export async function generateMetadata({ params }: Props): Promise<Metadata> {
 }
 
 const value = (v: number | null | undefined) => (v == null ? "—" : formatRelativeNumber(v));
+
+type Report = NonNullable<Awaited<ReturnType<typeof getMonthReport>>>;
+
+const DAY_COLUMNS: Array<StaticColumn<Report["days"][number]>> = [
+  { key: "day", header: "UT day", cell: (d) => d.day },
+  { key: "mean", header: "Relative number", className: "font-semibold", cell: (d) => value(d.all?.mean) },
+  { key: "observers", header: "Observers", cell: (d) => d.all?.observers ?? "—" },
+  { key: "sd", header: "SD", cell: (d) => value(d.all?.sd) },
+  { key: "north", header: "North", cell: (d) => value(d.north) },
+  { key: "south", header: "South", cell: (d) => value(d.south) },
+];
+
+const OBSERVER_COLUMNS: Array<StaticColumn<Report["observers"][number]>> = [
+  { key: "name", header: "Observer", cell: (o) => o.displayName },
+  { key: "code", header: "Code", cell: (o) => o.code },
+  { key: "instrument", header: "Instrument", cell: (o) => o.instrumentName },
+  { key: "counts", header: "Counts", cell: (o) => o.counts },
+  { key: "raw", header: "Mean 10g + s", cell: (o) => o.meanRaw.toFixed(1) },
+  { key: "k", header: "k used", cell: (o) => o.k.toFixed(3) },
+];
 
 function monthTitle(month: string): string {
   return new Intl.DateTimeFormat("en-GB", { month: "long", year: "numeric", timeZone: "UTC" }).format(
@@ -108,87 +129,25 @@ export default async function MonthReportPage({ params }: Props) {
             <h2 id="days-heading" className="mb-2 text-lg font-semibold text-ink-900">
               Daily table
             </h2>
-            <table className="min-w-full border border-ink-100 bg-white text-sm">
-              <caption className="sr-only">Daily relative numbers in {monthTitle(month)}</caption>
-              <thead className="bg-ink-50 text-left text-xs tracking-wide text-ink-600 uppercase">
-                <tr>
-                  <th scope="col" className="px-3 py-1.5">
-                    UT day
-                  </th>
-                  <th scope="col" className="px-3 py-1.5">
-                    Relative number
-                  </th>
-                  <th scope="col" className="px-3 py-1.5">
-                    Observers
-                  </th>
-                  <th scope="col" className="px-3 py-1.5">
-                    SD
-                  </th>
-                  <th scope="col" className="px-3 py-1.5">
-                    North
-                  </th>
-                  <th scope="col" className="px-3 py-1.5">
-                    South
-                  </th>
-                </tr>
-              </thead>
-              <tbody className="tabular-nums">
-                {report.days.map((d) => (
-                  <tr key={d.day} className="break-inside-avoid border-t border-ink-100">
-                    <td className="px-3 py-1">{d.day}</td>
-                    <td className="px-3 py-1 font-semibold">{value(d.all?.mean)}</td>
-                    <td className="px-3 py-1">{d.all?.observers ?? "—"}</td>
-                    <td className="px-3 py-1">{value(d.all?.sd)}</td>
-                    <td className="px-3 py-1">{value(d.north)}</td>
-                    <td className="px-3 py-1">{value(d.south)}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+            <StaticTable
+              caption={`Daily relative numbers in ${monthTitle(month)}`}
+              columns={DAY_COLUMNS}
+              rows={report.days}
+              rowKey={(d) => d.day}
+              density="compact"
+            />
           </section>
           <section aria-labelledby="observers-heading" className="break-inside-avoid">
             <h2 id="observers-heading" className="mb-2 text-lg font-semibold text-ink-900">
               Observers ({new Set(report.observers.map((o) => o.code)).size})
             </h2>
-            <table className="min-w-full border border-ink-100 bg-white text-sm">
-              <caption className="sr-only">
-                Observers whose counts were accepted in {monthTitle(month)}
-              </caption>
-              <thead className="bg-ink-50 text-left text-xs tracking-wide text-ink-600 uppercase">
-                <tr>
-                  <th scope="col" className="px-3 py-1.5">
-                    Observer
-                  </th>
-                  <th scope="col" className="px-3 py-1.5">
-                    Code
-                  </th>
-                  <th scope="col" className="px-3 py-1.5">
-                    Instrument
-                  </th>
-                  <th scope="col" className="px-3 py-1.5">
-                    Counts
-                  </th>
-                  <th scope="col" className="px-3 py-1.5">
-                    Mean 10g + s
-                  </th>
-                  <th scope="col" className="px-3 py-1.5">
-                    k used
-                  </th>
-                </tr>
-              </thead>
-              <tbody className="tabular-nums">
-                {report.observers.map((o) => (
-                  <tr key={`${o.code}-${o.instrumentName}`} className="border-t border-ink-100">
-                    <td className="px-3 py-1">{o.displayName}</td>
-                    <td className="px-3 py-1">{o.code}</td>
-                    <td className="px-3 py-1">{o.instrumentName}</td>
-                    <td className="px-3 py-1">{o.counts}</td>
-                    <td className="px-3 py-1">{o.meanRaw.toFixed(1)}</td>
-                    <td className="px-3 py-1">{o.k.toFixed(3)}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
+            <StaticTable
+              caption={`Observers whose counts were accepted in ${monthTitle(month)}`}
+              columns={OBSERVER_COLUMNS}
+              rows={report.observers}
+              rowKey={(o) => `${o.code}-${o.instrumentName}`}
+              density="compact"
+            />
           </section>
         </>
       )}

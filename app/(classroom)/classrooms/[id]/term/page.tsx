@@ -6,6 +6,7 @@ import { KSparkline } from "@/components/classrooms/k-sparkline";
 import { TermCountChart } from "@/components/classrooms/term-count-chart";
 import { PageHeader } from "@/components/layout/app-shell";
 import { ButtonLink } from "@/components/ui/button";
+import { StaticTable } from "@/components/ui/static-table";
 import { requirePageRole } from "@/lib/auth/page-guard";
 import {
   CLASS_MIN_SESSIONS,
@@ -131,52 +132,67 @@ export default async function TermPage({
               student&apos;s own count, which in a small class pulls k a little towards 1. A k from fewer than{" "}
               {CLASS_MIN_SESSIONS} sessions is a first look.
             </p>
-            <table className="mt-4 w-full text-left text-sm" aria-label="k per student">
-              <thead className="border-b border-ink-200 text-xs text-ink-500">
-                <tr>
-                  <th className="py-2 pr-3 font-medium">Student</th>
-                  <th className="py-2 pr-3 text-right font-medium">Sessions</th>
-                  <th className="py-2 pr-3 text-right font-medium">k</th>
-                  <th className="py-2 pr-3 font-medium">Running k, session by session</th>
-                  <th className="py-2 font-medium">Settled</th>
-                </tr>
-              </thead>
-              <tbody className="divide-y divide-ink-100">
-                {view.students.map((s) => {
-                  const result = byStudent.get(s.studentId);
-                  const k = result?.estimate.k ?? null;
-                  return (
-                    <tr key={s.studentId}>
-                      <td className="py-2 pr-3 font-medium text-ink-900">{s.displayName}</td>
-                      <td className="py-2 pr-3 text-right tabular-nums">{result?.sessionsCounted ?? 0}</td>
-                      <td className="py-2 pr-3 text-right tabular-nums">
-                        {k === null ? (
-                          "—"
-                        ) : (
-                          <>
-                            <strong>{k.toFixed(2)}</strong>
-                            {result?.estimate.sigma != null ? (
-                              <span className="text-ink-500"> ± {result.estimate.sigma.toFixed(2)}</span>
-                            ) : null}
-                            {result && !result.estimate.meetsMinimum ? (
-                              <span className="text-ink-400"> *</span>
-                            ) : null}
-                          </>
-                        )}
-                      </td>
-                      <td className="py-2 pr-3">
-                        <KSparkline steps={result?.settling.map((step) => step.k) ?? []} finalK={k} />
-                      </td>
-                      <td className="py-2 text-ink-700">
-                        {result?.settledAfter
-                          ? `after ${result.settledAfter} session${result.settledAfter === 1 ? "" : "s"}`
-                          : "not yet"}
-                      </td>
-                    </tr>
-                  );
-                })}
-              </tbody>
-            </table>
+            <StaticTable
+              caption="k per student"
+              look="plain"
+              className="mt-4"
+              rows={view.students}
+              rowKey={(s) => s.studentId}
+              columns={[
+                {
+                  key: "student",
+                  header: "Student",
+                  className: "font-medium text-ink-900",
+                  cell: (s) => s.displayName,
+                },
+                {
+                  key: "sessions",
+                  header: "Sessions",
+                  align: "right",
+                  cell: (s) => byStudent.get(s.studentId)?.sessionsCounted ?? 0,
+                },
+                {
+                  key: "k",
+                  header: "k",
+                  align: "right",
+                  cell: (s) => {
+                    const result = byStudent.get(s.studentId);
+                    if (!result || result.estimate.k === null) return "—";
+                    return (
+                      <>
+                        <strong>{result.estimate.k.toFixed(2)}</strong>
+                        {result.estimate.sigma != null ? (
+                          <span className="text-ink-500"> ± {result.estimate.sigma.toFixed(2)}</span>
+                        ) : null}
+                        {!result.estimate.meetsMinimum ? <span className="text-ink-400"> *</span> : null}
+                      </>
+                    );
+                  },
+                },
+                {
+                  key: "running",
+                  header: "Running k, session by session",
+                  cell: (s) => {
+                    const result = byStudent.get(s.studentId);
+                    return (
+                      <KSparkline
+                        steps={result?.settling.map((step) => step.k) ?? []}
+                        finalK={result?.estimate.k ?? null}
+                      />
+                    );
+                  },
+                },
+                {
+                  key: "settled",
+                  header: "Settled",
+                  className: "text-ink-700",
+                  cell: (s) => {
+                    const after = byStudent.get(s.studentId)?.settledAfter;
+                    return after ? `after ${after} session${after === 1 ? "" : "s"}` : "not yet";
+                  },
+                },
+              ]}
+            />
             <p className="mt-2 text-xs text-ink-500">
               * fewer than {CLASS_MIN_SESSIONS} sessions. “Settled”: from that session on, the running k
               stayed within {Math.round(SETTLE_TOLERANCE * 100)} % of the term&apos;s k for at least{" "}
@@ -197,26 +213,24 @@ export default async function TermPage({
                 After a student&apos;s first few sessions, how far is their running k from where it ends the
                 term? The typical (median) distance across the class:
               </p>
-              <table className="mt-3 text-sm" aria-label="k by session count">
-                <thead className="text-xs text-ink-500">
-                  <tr>
-                    <th className="py-1 pr-6 text-left font-medium">After session</th>
-                    <th className="py-1 pr-6 text-right font-medium">Students</th>
-                    <th className="py-1 text-right font-medium">Typical distance from term k</th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {settling.map((row) => (
-                    <tr key={row.sessionCount}>
-                      <td className="py-0.5 pr-6 tabular-nums">{row.sessionCount}</td>
-                      <td className="py-0.5 pr-6 text-right tabular-nums">{row.students}</td>
-                      <td className="py-0.5 text-right tabular-nums">
-                        {Math.round(row.medianDeviation * 100)} %
-                      </td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
+              <StaticTable
+                caption="k by session count"
+                look="plain"
+                density="compact"
+                className="mt-3 w-fit"
+                rows={settling}
+                rowKey={(row) => String(row.sessionCount)}
+                columns={[
+                  { key: "after", header: "After session", cell: (row) => row.sessionCount },
+                  { key: "students", header: "Students", align: "right", cell: (row) => row.students },
+                  {
+                    key: "distance",
+                    header: "Typical distance from term k",
+                    align: "right",
+                    cell: (row) => `${Math.round(row.medianDeviation * 100)} %`,
+                  },
+                ]}
+              />
             </section>
           ) : null}
 

@@ -5,16 +5,20 @@ import { count } from "drizzle-orm";
 import { hashPassword } from "@/lib/auth/password";
 import { buildDemoScenario, DEMO_CLASSROOM, DEMO_PASSWORD, DEMO_STAFF } from "@/lib/demo/scenario";
 import { makeRandom } from "@/lib/demo/random";
+import { buildDemoTracings } from "@/lib/demo/tracings";
 
 import type { Database } from "./client";
 import { flagAwaitingReview } from "./queries/review-flags";
+import { toGroupRows } from "./queries/tracings";
 import {
   classroomMembers,
   classrooms,
   classroomSessions,
   instruments,
+  observationGroups,
   observations,
   observers,
+  tracings,
   users,
 } from "./schema";
 
@@ -134,12 +138,45 @@ export async function seedDemo(db: Database): Promise<{ observations: number }> 
       const ids = observerIds.get(observerKey);
       if (!ids) throw new Error(`unknown demo observer ${observerKey}`);
       const classSessionId = studentKeys.has(observerKey) ? (sessionIdByDay.get(o.utDate) ?? null) : null;
-      return { ...o, ...ids, classSessionId, createdAt: o.observedAt, updatedAt: o.observedAt };
+      return {
+        ...o,
+        ...ids,
+        id: crypto.randomUUID(),
+        classSessionId,
+        createdAt: o.observedAt,
+        updatedAt: o.observedAt,
+      };
     });
     for (let i = 0; i < rows.length; i += CHUNK) {
       await tx.insert(observations).values(rows.slice(i, i + CHUNK));
     }
     inserted = rows.length;
+
+    // The weekly disk drawings of two demo observers, stored as a saved tracing is.
+    const traced = [...buildDemoTracings({ observations: scenario.observations })].map(
+      ([index, tracing]) => ({
+        observation: rows[index]!,
+        ...tracing,
+      }),
+    );
+    const tracingRows = traced.map(({ observation, document }) => ({
+      observationId: observation.id,
+      observerId: observation.observerId,
+      formatVersion: document.version,
+      vector: document as unknown as Record<string, unknown>,
+      createdAt: observation.observedAt,
+      updatedAt: observation.observedAt,
+    }));
+    const groupRows = traced.flatMap(({ observation, groups }) =>
+      toGroupRows({ observationId: observation.id, groups }),
+    );
+    // Drawings are large: a few per statement keeps each insert small.
+    for (let i = 0; i < tracingRows.length; i += 20) {
+      await tx.insert(tracings).values(tracingRows.slice(i, i + 20));
+    }
+    for (let i = 0; i < groupRows.length; i += CHUNK) {
+      await tx.insert(observationGroups).values(groupRows.slice(i, i + CHUNK));
+    }
   });
   // The demo's waiting counts get the same automatic flags as live arrivals,
   // so the planted outliers show up flagged on the Review desk.

@@ -172,6 +172,22 @@ export class RevisionConflict extends Error {
   }
 }
 
+/** The rows of observation_groups for a tracing's measured groups (also used by the demo seed). */
+export function toGroupRows({ observationId, groups }: { observationId: string; groups: MeasuredGroup[] }) {
+  return groups.map((g) => ({
+    observationId,
+    number: g.number,
+    spots: g.spotCount,
+    zurichClass: g.zurichClass,
+    mcintoshClass: g.mcintoshClass,
+    latitudeDeg: g.latitudeDeg,
+    cmdDeg: g.cmdDeg,
+    carringtonLonDeg: g.carringtonLonDeg,
+    hemisphere: g.hemisphere,
+    areaMsh: g.areaMsh,
+  }));
+}
+
 /**
  * Stores a tracing, its groups and the observation's counts in one
  * transaction: either all three change or none does. The revision check
@@ -208,20 +224,7 @@ export async function saveTracing({
 
     await tx.delete(observationGroups).where(eq(observationGroups.observationId, observationId));
     if (groups.length > 0) {
-      await tx.insert(observationGroups).values(
-        groups.map((g) => ({
-          observationId,
-          number: g.number,
-          spots: g.spotCount,
-          zurichClass: g.zurichClass,
-          mcintoshClass: g.mcintoshClass,
-          latitudeDeg: g.latitudeDeg,
-          cmdDeg: g.cmdDeg,
-          carringtonLonDeg: g.carringtonLonDeg,
-          hemisphere: g.hemisphere,
-          areaMsh: g.areaMsh,
-        })),
-      );
+      await tx.insert(observationGroups).values(toGroupRows({ observationId, groups }));
     }
 
     const vector = document as unknown as Record<string, unknown>;

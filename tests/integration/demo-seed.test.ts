@@ -1,0 +1,62 @@
+import { count, eq, sum } from "drizzle-orm";
+import { beforeAll, describe, expect, it } from "vitest";
+
+import { GET as getLatitudes } from "@/app/api/v1/series/latitudes/route";
+import { getDb } from "@/db/client";
+import { seedDemo } from "@/db/seed";
+import { observationGroups, observations, tracings, users } from "@/db/schema";
+import { DEMO_STAFF } from "@/lib/demo/scenario";
+
+import { apiRequest } from "./support";
+
+describe("the demo network's tracings", () => {
+  let coordinatorId: string;
+
+  beforeAll(async () => {
+    await seedDemo(getDb());
+    const [coordinator] = await getDb()
+      .select()
+      .from(users)
+      .where(eq(users.email, DEMO_STAFF.coordinator.email));
+    coordinatorId = coordinator!.id;
+  }, 60_000);
+
+  it("stores each drawing with its groups, which add up to the logged counts", async () => {
+    const db = getDb();
+    const [{ n: drawings } = { n: 0 }] = await db.select({ n: count() }).from(tracings);
+    expect(drawings).toBeGreaterThan(100);
+    const perObservation = await db
+      .select({
+        groups: observations.groups,
+        spots: observations.spots,
+        drawnGroups: count(observationGroups.id),
+        drawnSpots: sum(observationGroups.spots).mapWith(Number),
+      })
+      .from(tracings)
+      .innerJoin(observations, eq(observations.id, tracings.observationId))
+      .leftJoin(observationGroups, eq(observationGroups.observationId, observations.id))
+      .groupBy(observations.id);
+    expect(perObservation).toHaveLength(drawings);
+    for (const row of perObservation) {
+      expect(row.drawnGroups).toBe(row.groups);
+      expect(row.drawnSpots || 0).toBe(row.spots);
+    }
+  });
+
+  it("fills the Archive's latitude–time diagram with the accepted counts' groups, in day order", async () => {
+    const res = await getLatitudes(await apiRequest("/api/v1/series/latitudes", { userId: coordinatorId }));
+    expect(res.status).toBe(200);
+    const body = (await res.json()) as { days: string[]; latitudes: number[]; hemispheres: string[] };
+    const [{ n: accepted } = { n: 0 }] = await getDb()
+      .select({ n: count() })
+      .from(observationGroups)
+      .innerJoin(observations, eq(observations.id, observationGroups.observationId))
+      .where(eq(observations.status, "accepted"));
+    expect(accepted).toBeGreaterThan(1000);
+    expect(body.days).toHaveLength(accepted);
+    expect(body.latitudes).toHaveLength(accepted);
+    // The chart draws days left to right: they must arrive sorted.
+    expect(body.days.every((day, i) => i === 0 || body.days[i - 1]! <= day)).toBe(true);
+    body.latitudes.forEach((lat, i) => expect(body.hemispheres[i]).toBe(lat >= 0 ? "N" : "S"));
+  });
+});

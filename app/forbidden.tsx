@@ -9,8 +9,8 @@ export default function Forbidden() {
       <p className="text-sm font-semibold tracking-widest text-corona-700">403 · NOT FOR THIS ACCOUNT</p>
       <h1 className="text-2xl font-semibold text-ink-950">This page belongs to another role</h1>
       <p className="text-ink-600">
-        You are signed in, but your account does not have access here. If you think it should, ask your network&apos;s
-        admin to change your role.
+        You are signed in, but your account does not have access here. If you think it should, ask your
+        network&apos;s admin to change your role.
       </p>
       <Link href="/" className="font-semibold text-corona-700 underline">
         Go to your start page

@@ -28,15 +28,28 @@ export function SafetyNotice({
     >
       <p className="font-semibold">Solar safety — read before observing</p>
       {emphasis ? (
-        <p data-testid="safety-emphasis" className="mt-1 rounded-md bg-caution-200/60 px-3 py-2 font-semibold">
+        <p
+          data-testid="safety-emphasis"
+          className="mt-1 rounded-md bg-caution-200/60 px-3 py-2 font-semibold"
+        >
           {SAFETY_EMPHASIS[emphasis]}
         </p>
       ) : null}
       <ul className={`mt-1 list-disc space-y-0.5 pl-5 ${compact ? "text-xs" : ""}`}>
-        <li>Never look at the Sun directly, or through any binoculars, telescope or camera, without a certified solar filter over the front.</li>
+        <li>
+          Never look at the Sun directly, or through any binoculars, telescope or camera, without a certified
+          solar filter over the front.
+        </li>
         <li>Count by projection only: look at the image on the card or wall, never into the optics.</li>
-        <li>A mirror&apos;s reflected beam travels far: keep it away from people&apos;s eyes, roads and walkways, and cover the mirror when you step away.</li>
-        <li>{classroom ? "An adult supervises every class session from set-up to packing away." : "Supervise children at all times."}</li>
+        <li>
+          A mirror&apos;s reflected beam travels far: keep it away from people&apos;s eyes, roads and
+          walkways, and cover the mirror when you step away.
+        </li>
+        <li>
+          {classroom
+            ? "An adult supervises every class session from set-up to packing away."
+            : "Supervise children at all times."}
+        </li>
         <li>Follow local rules and your school&apos;s or club&apos;s own safety policy; they come first.</li>
       </ul>
     </aside>

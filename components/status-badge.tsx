@@ -7,5 +7,7 @@ const STYLES = {
 
 export function StatusBadge({ status }: { status: keyof typeof STYLES }) {
   const style = STYLES[status];
-  return <span className={`rounded-full px-2 py-0.5 text-xs font-medium ${style.className}`}>{style.label}</span>;
+  return (
+    <span className={`rounded-full px-2 py-0.5 text-xs font-medium ${style.className}`}>{style.label}</span>
+  );
 }

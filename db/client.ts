@@ -50,4 +50,3 @@ function ensureParentFolder(url: string): void {
   if (!file || file === ":memory:") return;
   mkdirSync(path.dirname(path.resolve(/*turbopackIgnore: true*/ file)), { recursive: true });
 }
-

@@ -58,9 +58,27 @@ export async function seedDemo(db: Database): Promise<{ observations: number }> 
     const staff = await tx
       .insert(users)
       .values([
-        { email: DEMO_STAFF.coordinator.email, name: DEMO_STAFF.coordinator.name, role: "coordinator", passwordHash, isDemo: true },
-        { email: DEMO_STAFF.educator.email, name: DEMO_STAFF.educator.name, role: "educator", passwordHash, isDemo: true },
-        { email: DEMO_STAFF.admin.email, name: DEMO_STAFF.admin.name, role: "admin", passwordHash, isDemo: true },
+        {
+          email: DEMO_STAFF.coordinator.email,
+          name: DEMO_STAFF.coordinator.name,
+          role: "coordinator",
+          passwordHash,
+          isDemo: true,
+        },
+        {
+          email: DEMO_STAFF.educator.email,
+          name: DEMO_STAFF.educator.name,
+          role: "educator",
+          passwordHash,
+          isDemo: true,
+        },
+        {
+          email: DEMO_STAFF.admin.email,
+          name: DEMO_STAFF.admin.name,
+          role: "admin",
+          passwordHash,
+          isDemo: true,
+        },
       ])
       .returning();
     const educator = staff.find((u) => u.role === "educator");
@@ -70,7 +88,13 @@ export async function seedDemo(db: Database): Promise<{ observations: number }> 
     for (const person of scenario.observers) {
       const [user] = await tx
         .insert(users)
-        .values({ email: person.email, name: person.displayName, role: "observer", passwordHash, isDemo: true })
+        .values({
+          email: person.email,
+          name: person.displayName,
+          role: "observer",
+          passwordHash,
+          isDemo: true,
+        })
         .returning();
       const [profile] = await tx
         .insert(observers)
@@ -102,16 +126,27 @@ export async function seedDemo(db: Database): Promise<{ observations: number }> 
       .returning();
     for (const [i, student] of scenario.students.entries()) {
       // Students have no e-mail address: they sign in with the class code and a PIN.
-      const [user] = await tx.insert(users).values({ name: student.displayName, role: "student", isDemo: true }).returning();
+      const [user] = await tx
+        .insert(users)
+        .values({ name: student.displayName, role: "student", isDemo: true })
+        .returning();
       const [profile] = await tx
         .insert(observers)
-        .values({ userId: user!.id, displayName: student.displayName, code: nextCode(), country: null, timeZone: "Europe/London" })
+        .values({
+          userId: user!.id,
+          displayName: student.displayName,
+          code: nextCode(),
+          country: null,
+          timeZone: "Europe/London",
+        })
         .returning();
       const [instrument] = await tx
         .insert(instruments)
         .values({ observerId: profile!.id, ...DEMO_CLASSROOM.instrument })
         .returning();
-      await tx.insert(classroomMembers).values({ classroomId: classroom!.id, userId: user!.id, pinHash: pinHashes[i]! });
+      await tx
+        .insert(classroomMembers)
+        .values({ classroomId: classroom!.id, userId: user!.id, pinHash: pinHashes[i]! });
       observerIds.set(student.key, { observerId: profile!.id, instrumentId: instrument!.id });
     }
     // The club met on Wednesdays, 10:00–11:00 UT: one class session per

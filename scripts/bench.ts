@@ -17,10 +17,18 @@ const files = readdirSync(folder)
 let failed = 0;
 for (const file of files) {
   console.log(`\n=== ${file} ===`);
-  const run = spawnSync(process.execPath, [path.join("node_modules", "tsx", "dist", "cli.mjs"), "--conditions=react-server", path.join(folder, file)], {
-    stdio: "inherit",
-    env: { ...process.env, NODE_ENV: "production", NEXT_TELEMETRY_DISABLED: "1" },
-  });
+  const run = spawnSync(
+    process.execPath,
+    [
+      path.join("node_modules", "tsx", "dist", "cli.mjs"),
+      "--conditions=react-server",
+      path.join(folder, file),
+    ],
+    {
+      stdio: "inherit",
+      env: { ...process.env, NODE_ENV: "production", NEXT_TELEMETRY_DISABLED: "1" },
+    },
+  );
   if (run.status !== 0) failed++;
 }
 process.exit(failed === 0 ? 0 : 1);

@@ -16,7 +16,9 @@ export async function prepareAndSeed({ log = console.log }: { log?: (line: strin
   if (env.HELIOTALLY_DEMO && (await isDatabaseEmpty(db))) {
     const started = Date.now();
     const { observations } = await seedDemo(db);
-    log(`Seeded the demo network (invented data): ${observations} observations in ${Date.now() - started} ms.`);
+    log(
+      `Seeded the demo network (invented data): ${observations} observations in ${Date.now() - started} ms.`,
+    );
     // Fit every k and fill the Archive now, so the demo opens with a series.
     const recomputed = await runFullRecompute();
     log(`Fitted ${recomputed.kCoefficients} k coefficients; the series holds ${recomputed.days} days.`);

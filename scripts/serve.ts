@@ -29,7 +29,9 @@ if (env.MAIL_SINK) {
   try {
     const sink = await startMailSink({ port: env.SMTP_PORT, host: env.SMTP_HOST, log: console.log });
     services.push({ name: "mail sink", close: sink.close });
-    console.log(`Mail sink listening on smtp://${env.SMTP_HOST}:${sink.port} (messages appear under Admin → Mail).`);
+    console.log(
+      `Mail sink listening on smtp://${env.SMTP_HOST}:${sink.port} (messages appear under Admin → Mail).`,
+    );
   } catch (error) {
     console.warn(`Mail sink not started (${(error as Error).message}); is another copy running?`);
   }
@@ -72,7 +74,9 @@ const child = spawn(process.execPath, [nextBin, mode, "--port", String(env.PORT)
   stdio: "inherit",
   env: process.env,
 });
-console.log(`Heliotally (${mode}) starting on http://localhost:${env.PORT} — prepared in ${Date.now() - started} ms.`);
+console.log(
+  `Heliotally (${mode}) starting on http://localhost:${env.PORT} — prepared in ${Date.now() - started} ms.`,
+);
 
 let stopping = false;
 async function stop(code: number) {

@@ -16,22 +16,41 @@ if (!existsSync(chromium)) {
   process.exit(1);
 }
 
-const SOURCES = ["app", "components", "db", "lib", "drizzle", "public", "types", "next.config.mjs", "tailwind.config.ts", "package-lock.json"];
+const SOURCES = [
+  "app",
+  "components",
+  "db",
+  "lib",
+  "drizzle",
+  "public",
+  "types",
+  "next.config.mjs",
+  "tailwind.config.ts",
+  "package-lock.json",
+];
 
 function newestMtime(entry: string): number {
   if (!existsSync(entry)) return 0;
   const stat = statSync(entry);
   if (!stat.isDirectory()) return stat.mtimeMs;
-  return readdirSync(entry).reduce((max, name) => Math.max(max, newestMtime(path.join(entry, name))), stat.mtimeMs);
+  return readdirSync(entry).reduce(
+    (max, name) => Math.max(max, newestMtime(path.join(entry, name))),
+    stat.mtimeMs,
+  );
 }
 
 const buildId = path.join(".next", "BUILD_ID");
 const builtAt = existsSync(buildId) ? statSync(buildId).mtimeMs : 0;
 if (builtAt < Math.max(...SOURCES.map(newestMtime))) {
   console.log("Building the app for end-to-end tests…");
-  const build = spawnSync("npx", ["next", "build"], { stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } });
+  const build = spawnSync("npx", ["next", "build"], {
+    stdio: "inherit",
+    env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" },
+  });
   if (build.status !== 0) process.exit(build.status ?? 1);
 }
 
-const run = spawnSync("npx", ["vitest", "run", "--project", "e2e", ...process.argv.slice(2)], { stdio: "inherit" });
+const run = spawnSync("npx", ["vitest", "run", "--project", "e2e", ...process.argv.slice(2)], {
+  stdio: "inherit",
+});
 process.exit(run.status ?? 1);

@@ -10,12 +10,20 @@ import path from "node:path";
 const reports = path.join("test-results", "reports");
 rmSync(reports, { recursive: true, force: true });
 mkdirSync(reports, { recursive: true });
-const json = (name: string) => ["--reporter=default", "--reporter=json", `--outputFile.json=${path.join(reports, `${name}.json`)}`];
+const json = (name: string) => [
+  "--reporter=default",
+  "--reporter=json",
+  `--outputFile.json=${path.join(reports, `${name}.json`)}`,
+];
 
 const steps: Array<[string, string[]]> = [
   ["lint", ["npm", "run", "lint"]],
+  ["format", ["npm", "run", "format:check"]],
   ["typecheck", ["npm", "run", "typecheck"]],
-  ["unit and integration tests", ["npx", "vitest", "run", "--project", "unit", "--project", "integration", ...json("unit-integration")]],
+  [
+    "unit and integration tests",
+    ["npx", "vitest", "run", "--project", "unit", "--project", "integration", ...json("unit-integration")],
+  ],
   ["end-to-end tests", ["npx", "tsx", "scripts/test-e2e.ts", ...json("e2e")]],
 ];
 
@@ -25,7 +33,10 @@ function tally(): { passed: number; failed: number } {
   for (const name of ["unit-integration", "e2e"]) {
     const file = path.join(reports, `${name}.json`);
     if (!existsSync(file)) continue;
-    const report = JSON.parse(readFileSync(file, "utf8")) as { numPassedTests: number; numFailedTests: number };
+    const report = JSON.parse(readFileSync(file, "utf8")) as {
+      numPassedTests: number;
+      numFailedTests: number;
+    };
     passed += report.numPassedTests;
     failed += report.numFailedTests;
   }
@@ -36,7 +47,10 @@ const started = Date.now();
 for (const [name, [cmd, ...args]] of steps) {
   const t = Date.now();
   console.log(`\n=== ${name} ===`);
-  const result = spawnSync(cmd!, args, { stdio: "inherit", env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" } });
+  const result = spawnSync(cmd!, args, {
+    stdio: "inherit",
+    env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" },
+  });
   if (result.status !== 0) {
     const { passed, failed } = tally();
     console.error(`\n✗ ${name} failed (exit ${result.status}).`);

@@ -19,9 +19,9 @@ export default async function HomePage() {
           Count the Sun every clear day. Heliotally keeps the rest.
         </h1>
         <p className="mt-4 text-lg text-ink-700">
-          Log your groups and spots in a minute, see your relative number <em>R = k(10g + s)</em> at once, and build a
-          Logbook your network can trust. Coordinators review submissions, find every observer&apos;s <em>k</em> and
-          publish the network&apos;s series; teachers run class observing sessions.
+          Log your groups and spots in a minute, see your relative number <em>R = k(10g + s)</em> at once, and
+          build a Logbook your network can trust. Coordinators review submissions, find every observer&apos;s{" "}
+          <em>k</em> and publish the network&apos;s series; teachers run class observing sessions.
         </p>
         <div className="mt-6 flex gap-3">
           <ButtonLink href="/sign-in">Sign in</ButtonLink>

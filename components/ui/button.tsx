@@ -13,7 +13,11 @@ type Variant = keyof typeof VARIANTS;
 const base =
   "inline-flex items-center justify-center gap-2 rounded-md px-4 py-2 text-sm font-semibold transition-colors disabled:cursor-not-allowed";
 
-export function Button({ variant = "primary", className = "", ...props }: ComponentProps<"button"> & { variant?: Variant }) {
+export function Button({
+  variant = "primary",
+  className = "",
+  ...props
+}: ComponentProps<"button"> & { variant?: Variant }) {
   return <button className={`${base} ${VARIANTS[variant]} ${className}`} {...props} />;
 }
 

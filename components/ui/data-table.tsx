@@ -53,7 +53,8 @@ export function DataTable<Row extends RowData>({
     manualPagination: true,
     manualSorting: true,
     state: { pagination, sorting },
-    onPaginationChange: (updater) => onPaginationChange(typeof updater === "function" ? updater(pagination) : updater),
+    onPaginationChange: (updater) =>
+      onPaginationChange(typeof updater === "function" ? updater(pagination) : updater),
     onSortingChange: (updater) => onSortingChange(typeof updater === "function" ? updater(sorting) : updater),
   });
   const pageCount = Math.max(1, Math.ceil(rowCount / pagination.pageSize));
@@ -74,7 +75,9 @@ export function DataTable<Row extends RowData>({
                       key={header.id}
                       scope="col"
                       className="px-3 py-2 font-semibold"
-                      aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined}
+                      aria-sort={
+                        sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : undefined
+                      }
                     >
                       {sortable ? (
                         <button
@@ -83,7 +86,9 @@ export function DataTable<Row extends RowData>({
                           onClick={header.column.getToggleSortingHandler()}
                         >
                           <table.FlexRender header={header} />
-                          <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
+                          <span aria-hidden="true">
+                            {sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}
+                          </span>
                         </button>
                       ) : (
                         <table.FlexRender header={header} />
@@ -107,7 +112,9 @@ export function DataTable<Row extends RowData>({
           </tbody>
         </table>
       </div>
-      {rows.length === 0 && !loading ? <div className="px-4 py-10 text-center text-sm text-ink-600">{empty}</div> : null}
+      {rows.length === 0 && !loading ? (
+        <div className="px-4 py-10 text-center text-sm text-ink-600">{empty}</div>
+      ) : null}
       {loading && rows.length === 0 ? (
         <div className="px-4 py-10 text-center text-sm text-ink-500" role="status">
           Loading…

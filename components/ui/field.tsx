@@ -61,7 +61,10 @@ export function FormMessage({ tone, children }: { tone: "error" | "success" | "i
     info: "border-ink-200 bg-ink-50 text-ink-700",
   };
   return (
-    <div role={tone === "error" ? "alert" : "status"} className={`rounded-md border px-4 py-3 text-sm ${tones[tone]}`}>
+    <div
+      role={tone === "error" ? "alert" : "status"}
+      className={`rounded-md border px-4 py-3 text-sm ${tones[tone]}`}
+    >
       {children}
     </div>
   );

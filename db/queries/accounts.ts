@@ -22,7 +22,12 @@ export async function createObserverAccount(input: {
   return db.transaction(async (tx) => {
     const [user] = await tx
       .insert(users)
-      .values({ name: input.name, email: input.email.toLowerCase(), passwordHash: input.passwordHash, role: "observer" })
+      .values({
+        name: input.name,
+        email: input.email.toLowerCase(),
+        passwordHash: input.passwordHash,
+        role: "observer",
+      })
       .returning();
     if (!user) throw new Error("insert returned nothing");
     const [observer] = await tx
@@ -36,7 +41,9 @@ export async function createObserverAccount(input: {
       })
       .returning();
     if (!observer) throw new Error("insert returned nothing");
-    await tx.insert(instruments).values({ observerId: observer.id, name: "My first instrument", kind: "pinhole" });
+    await tx
+      .insert(instruments)
+      .values({ observerId: observer.id, name: "My first instrument", kind: "pinhole" });
     return { user, observer };
   });
 }

@@ -8,7 +8,11 @@ import { idempotencyKeys } from "../schema";
 type KeyRef = { userId: string; scope: string; key: string };
 
 const matches = (ref: KeyRef) =>
-  and(eq(idempotencyKeys.userId, ref.userId), eq(idempotencyKeys.scope, ref.scope), eq(idempotencyKeys.key, ref.key));
+  and(
+    eq(idempotencyKeys.userId, ref.userId),
+    eq(idempotencyKeys.scope, ref.scope),
+    eq(idempotencyKeys.key, ref.key),
+  );
 
 export async function findIdempotencyRecord(ref: KeyRef) {
   const [row] = await getDb().select().from(idempotencyKeys).where(matches(ref)).limit(1);

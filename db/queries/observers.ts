@@ -18,11 +18,23 @@ export async function listInstrumentsByObserver({ observerId }: { observerId: st
     .orderBy(instruments.createdAt);
 }
 
-export async function getInstrumentOfObserver({ observerId, instrumentId }: { observerId: string; instrumentId: string }) {
+export async function getInstrumentOfObserver({
+  observerId,
+  instrumentId,
+}: {
+  observerId: string;
+  instrumentId: string;
+}) {
   const [row] = await getDb()
     .select()
     .from(instruments)
-    .where(and(eq(instruments.id, instrumentId), eq(instruments.observerId, observerId), isNull(instruments.archivedAt)))
+    .where(
+      and(
+        eq(instruments.id, instrumentId),
+        eq(instruments.observerId, observerId),
+        isNull(instruments.archivedAt),
+      ),
+    )
     .limit(1);
   return row ?? null;
 }

@@ -15,7 +15,11 @@ export async function saveThrottleRow(row: typeof signInThrottle.$inferInsert) {
     .values(row)
     .onConflictDoUpdate({
       target: signInThrottle.key,
-      set: { failures: row.failures, windowStartedAt: row.windowStartedAt, lockedUntil: row.lockedUntil ?? null },
+      set: {
+        failures: row.failures,
+        windowStartedAt: row.windowStartedAt,
+        lockedUntil: row.lockedUntil ?? null,
+      },
     });
 }
 

@@ -52,7 +52,10 @@ export function getAuthOptions(): NextAuthOptions {
       CredentialsProvider({
         id: "credentials",
         name: "E-mail and password",
-        credentials: { email: { label: "E-mail", type: "email" }, password: { label: "Password", type: "password" } },
+        credentials: {
+          email: { label: "E-mail", type: "email" },
+          password: { label: "Password", type: "password" },
+        },
         async authorize(raw, req) {
           const parsed = credentialsSchema.safeParse(raw ?? {});
           if (!parsed.success) throw new Error(INVALID_CREDENTIALS);

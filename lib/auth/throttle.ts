@@ -19,17 +19,37 @@ const keyOf = (kind: Kind, value: string) => `${kind}:${value.toLowerCase()}`;
 export class SignInLockedError extends Error {
   constructor(readonly retryAfterMs: number) {
     const minutes = Math.max(1, Math.ceil(retryAfterMs / 60_000));
-    super(`Too many failed sign-ins. Try again in ${minutes} minute${minutes === 1 ? "" : "s"}, or use a sign-in link.`);
+    super(
+      `Too many failed sign-ins. Try again in ${minutes} minute${minutes === 1 ? "" : "s"}, or use a sign-in link.`,
+    );
   }
 }
 
-export async function assertSignInAllowed({ email, address, now = new Date() }: { email: string; address: string; now?: Date }) {
+export async function assertSignInAllowed({
+  email,
+  address,
+  now = new Date(),
+}: {
+  email: string;
+  address: string;
+  now?: Date;
+}) {
   const rows = await getThrottleRows({ keys: [keyOf("account", email), keyOf("address", address)] });
-  const waits = rows.map((r) => (r.lockedUntil ? r.lockedUntil.getTime() - now.getTime() : 0)).filter((ms) => ms > 0);
+  const waits = rows
+    .map((r) => (r.lockedUntil ? r.lockedUntil.getTime() - now.getTime() : 0))
+    .filter((ms) => ms > 0);
   if (waits.length > 0) throw new SignInLockedError(Math.max(...waits));
 }
 
-export async function recordSignInFailure({ email, address, now = new Date() }: { email: string; address: string; now?: Date }) {
+export async function recordSignInFailure({
+  email,
+  address,
+  now = new Date(),
+}: {
+  email: string;
+  address: string;
+  now?: Date;
+}) {
   const pairs: Array<[Kind, string]> = [
     ["account", keyOf("account", email)],
     ["address", keyOf("address", address)],

@@ -36,20 +36,200 @@ export type DemoObserver = {
 
 // Invented people. Any resemblance to real observers is accidental.
 const OBSERVERS: Array<Omit<DemoObserver, "trueK" | "spotsPerGroup" | "clearSkyChance" | "localHourUt">> = [
-  { key: "wren", email: "observer@example.test", displayName: "Wren Halloway", country: "GB", timeZone: "Europe/London", splitsHemispheres: true, instrument: { name: "80 mm refractor, projection", kind: "eyepiece-projection", params: { apertureMm: 80, focalLengthMm: 900, eyepieceFocalLengthMm: 25, eyepieceToScreenMm: 300 } } },
-  { key: "tamsin", email: "tamsin.orr@example.test", displayName: "Tamsin Orr", country: "IE", timeZone: "Europe/Dublin", splitsHemispheres: false, instrument: { name: "Garden pinhole box", kind: "pinhole", params: { holeDiameterMm: 1.4, boxLengthMm: 1800 } } },
-  { key: "jurgen", email: "jurgen.vell@example.test", displayName: "Jurgen Vell", country: "DE", timeZone: "Europe/Berlin", splitsHemispheres: true, instrument: { name: "102 mm refractor, projection", kind: "eyepiece-projection", params: { apertureMm: 102, focalLengthMm: 1000, eyepieceFocalLengthMm: 20, eyepieceToScreenMm: 350 } } },
-  { key: "marit", email: "marit.sande@example.test", displayName: "Marit Sande", country: "NO", timeZone: "Europe/Oslo", splitsHemispheres: false, instrument: { name: "Hallway mirror", kind: "mirror", params: { mirrorSizeMm: 50, maskDiameterMm: 6, throwDistanceMm: 11000, incidenceAngleDeg: 20, surface: "first" } } },
-  { key: "pieter", email: "pieter.quaade@example.test", displayName: "Pieter Quaade", country: "NL", timeZone: "Europe/Amsterdam", splitsHemispheres: true, instrument: { name: "70 mm refractor, projection", kind: "eyepiece-projection", params: { apertureMm: 70, focalLengthMm: 700, eyepieceFocalLengthMm: 25, eyepieceToScreenMm: 250 } } },
-  { key: "lucia", email: "lucia.ferreol@example.test", displayName: "Lucia Ferreol", country: "ES", timeZone: "Europe/Madrid", splitsHemispheres: true, instrument: { name: "Filtered 90 mm Maksutov", kind: "filtered-telescope", params: { apertureMm: 90, magnification: 50, filter: "full-aperture film" } } },
-  { key: "tiago", email: "tiago.brum@example.test", displayName: "Tiago Brum", country: "PT", timeZone: "Europe/Lisbon", splitsHemispheres: false, instrument: { name: "Shoebox pinhole", kind: "pinhole", params: { holeDiameterMm: 0.8, boxLengthMm: 600 } } },
-  { key: "oriana", email: "oriana.vesco@example.test", displayName: "Oriana Vesco", country: "IT", timeZone: "Europe/Rome", splitsHemispheres: true, instrument: { name: "60 mm refractor, projection", kind: "eyepiece-projection", params: { apertureMm: 60, focalLengthMm: 700, eyepieceFocalLengthMm: 20, eyepieceToScreenMm: 200 } } },
-  { key: "declan", email: "declan.mirrow@example.test", displayName: "Declan Mirrow", country: "CA", timeZone: "America/Toronto", splitsHemispheres: false, instrument: { name: "Barn mirror", kind: "mirror", params: { mirrorSizeMm: 75, maskDiameterMm: 13, throwDistanceMm: 19500, incidenceAngleDeg: 30, surface: "second" } } },
-  { key: "hollis", email: "hollis.grange@example.test", displayName: "Hollis Grange", country: "US", timeZone: "America/Denver", splitsHemispheres: true, instrument: { name: "Filtered 127 mm refractor", kind: "filtered-telescope", params: { apertureMm: 127, magnification: 80, filter: "full-aperture glass" } } },
-  { key: "amaru", email: "amaru.tello@example.test", displayName: "Amaru Tello", country: "PE", timeZone: "America/Lima", splitsHemispheres: false, instrument: { name: "Filtered camera", kind: "camera", params: { focalLengthMm: 600, pixelSizeUm: 3.76, filter: "white-light film" } } },
-  { key: "nomvula", email: "nomvula.dlamane@example.test", displayName: "Nomvula Dlamane", country: "ZA", timeZone: "Africa/Johannesburg", splitsHemispheres: true, instrument: { name: "80 mm refractor, projection", kind: "eyepiece-projection", params: { apertureMm: 80, focalLengthMm: 400, eyepieceFocalLengthMm: 12, eyepieceToScreenMm: 200 } } },
-  { key: "keiko", email: "keiko.aramune@example.test", displayName: "Keiko Aramune", country: "JP", timeZone: "Asia/Tokyo", splitsHemispheres: true, instrument: { name: "Filtered 100 mm refractor", kind: "filtered-telescope", params: { apertureMm: 100, magnification: 60, filter: "full-aperture glass" } } },
-  { key: "rangi", email: "rangi.tawhero@example.test", displayName: "Rangi Tawhero", country: "NZ", timeZone: "Pacific/Auckland", splitsHemispheres: false, instrument: { name: "Veranda pinhole", kind: "pinhole", params: { holeDiameterMm: 1.0, boxLengthMm: 1000 } } },
+  {
+    key: "wren",
+    email: "observer@example.test",
+    displayName: "Wren Halloway",
+    country: "GB",
+    timeZone: "Europe/London",
+    splitsHemispheres: true,
+    instrument: {
+      name: "80 mm refractor, projection",
+      kind: "eyepiece-projection",
+      params: { apertureMm: 80, focalLengthMm: 900, eyepieceFocalLengthMm: 25, eyepieceToScreenMm: 300 },
+    },
+  },
+  {
+    key: "tamsin",
+    email: "tamsin.orr@example.test",
+    displayName: "Tamsin Orr",
+    country: "IE",
+    timeZone: "Europe/Dublin",
+    splitsHemispheres: false,
+    instrument: {
+      name: "Garden pinhole box",
+      kind: "pinhole",
+      params: { holeDiameterMm: 1.4, boxLengthMm: 1800 },
+    },
+  },
+  {
+    key: "jurgen",
+    email: "jurgen.vell@example.test",
+    displayName: "Jurgen Vell",
+    country: "DE",
+    timeZone: "Europe/Berlin",
+    splitsHemispheres: true,
+    instrument: {
+      name: "102 mm refractor, projection",
+      kind: "eyepiece-projection",
+      params: { apertureMm: 102, focalLengthMm: 1000, eyepieceFocalLengthMm: 20, eyepieceToScreenMm: 350 },
+    },
+  },
+  {
+    key: "marit",
+    email: "marit.sande@example.test",
+    displayName: "Marit Sande",
+    country: "NO",
+    timeZone: "Europe/Oslo",
+    splitsHemispheres: false,
+    instrument: {
+      name: "Hallway mirror",
+      kind: "mirror",
+      params: {
+        mirrorSizeMm: 50,
+        maskDiameterMm: 6,
+        throwDistanceMm: 11000,
+        incidenceAngleDeg: 20,
+        surface: "first",
+      },
+    },
+  },
+  {
+    key: "pieter",
+    email: "pieter.quaade@example.test",
+    displayName: "Pieter Quaade",
+    country: "NL",
+    timeZone: "Europe/Amsterdam",
+    splitsHemispheres: true,
+    instrument: {
+      name: "70 mm refractor, projection",
+      kind: "eyepiece-projection",
+      params: { apertureMm: 70, focalLengthMm: 700, eyepieceFocalLengthMm: 25, eyepieceToScreenMm: 250 },
+    },
+  },
+  {
+    key: "lucia",
+    email: "lucia.ferreol@example.test",
+    displayName: "Lucia Ferreol",
+    country: "ES",
+    timeZone: "Europe/Madrid",
+    splitsHemispheres: true,
+    instrument: {
+      name: "Filtered 90 mm Maksutov",
+      kind: "filtered-telescope",
+      params: { apertureMm: 90, magnification: 50, filter: "full-aperture film" },
+    },
+  },
+  {
+    key: "tiago",
+    email: "tiago.brum@example.test",
+    displayName: "Tiago Brum",
+    country: "PT",
+    timeZone: "Europe/Lisbon",
+    splitsHemispheres: false,
+    instrument: {
+      name: "Shoebox pinhole",
+      kind: "pinhole",
+      params: { holeDiameterMm: 0.8, boxLengthMm: 600 },
+    },
+  },
+  {
+    key: "oriana",
+    email: "oriana.vesco@example.test",
+    displayName: "Oriana Vesco",
+    country: "IT",
+    timeZone: "Europe/Rome",
+    splitsHemispheres: true,
+    instrument: {
+      name: "60 mm refractor, projection",
+      kind: "eyepiece-projection",
+      params: { apertureMm: 60, focalLengthMm: 700, eyepieceFocalLengthMm: 20, eyepieceToScreenMm: 200 },
+    },
+  },
+  {
+    key: "declan",
+    email: "declan.mirrow@example.test",
+    displayName: "Declan Mirrow",
+    country: "CA",
+    timeZone: "America/Toronto",
+    splitsHemispheres: false,
+    instrument: {
+      name: "Barn mirror",
+      kind: "mirror",
+      params: {
+        mirrorSizeMm: 75,
+        maskDiameterMm: 13,
+        throwDistanceMm: 19500,
+        incidenceAngleDeg: 30,
+        surface: "second",
+      },
+    },
+  },
+  {
+    key: "hollis",
+    email: "hollis.grange@example.test",
+    displayName: "Hollis Grange",
+    country: "US",
+    timeZone: "America/Denver",
+    splitsHemispheres: true,
+    instrument: {
+      name: "Filtered 127 mm refractor",
+      kind: "filtered-telescope",
+      params: { apertureMm: 127, magnification: 80, filter: "full-aperture glass" },
+    },
+  },
+  {
+    key: "amaru",
+    email: "amaru.tello@example.test",
+    displayName: "Amaru Tello",
+    country: "PE",
+    timeZone: "America/Lima",
+    splitsHemispheres: false,
+    instrument: {
+      name: "Filtered camera",
+      kind: "camera",
+      params: { focalLengthMm: 600, pixelSizeUm: 3.76, filter: "white-light film" },
+    },
+  },
+  {
+    key: "nomvula",
+    email: "nomvula.dlamane@example.test",
+    displayName: "Nomvula Dlamane",
+    country: "ZA",
+    timeZone: "Africa/Johannesburg",
+    splitsHemispheres: true,
+    instrument: {
+      name: "80 mm refractor, projection",
+      kind: "eyepiece-projection",
+      params: { apertureMm: 80, focalLengthMm: 400, eyepieceFocalLengthMm: 12, eyepieceToScreenMm: 200 },
+    },
+  },
+  {
+    key: "keiko",
+    email: "keiko.aramune@example.test",
+    displayName: "Keiko Aramune",
+    country: "JP",
+    timeZone: "Asia/Tokyo",
+    splitsHemispheres: true,
+    instrument: {
+      name: "Filtered 100 mm refractor",
+      kind: "filtered-telescope",
+      params: { apertureMm: 100, magnification: 60, filter: "full-aperture glass" },
+    },
+  },
+  {
+    key: "rangi",
+    email: "rangi.tawhero@example.test",
+    displayName: "Rangi Tawhero",
+    country: "NZ",
+    timeZone: "Pacific/Auckland",
+    splitsHemispheres: false,
+    instrument: {
+      name: "Veranda pinhole",
+      kind: "pinhole",
+      params: { holeDiameterMm: 1.0, boxLengthMm: 1000 },
+    },
+  },
 ];
 
 export type DemoStudent = { key: string; displayName: string; trueK: number; pin: string };
@@ -66,7 +246,11 @@ export const DEMO_CLASSROOM = {
   joinCode: "SUN-HLS8",
   termStart: "2026-09-07",
   termEnd: "2026-12-18",
-  instrument: { name: "Class pinhole box", kind: "pinhole", params: { holeDiameterMm: 1.2, boxLengthMm: 1500 } } satisfies DemoInstrument,
+  instrument: {
+    name: "Class pinhole box",
+    kind: "pinhole",
+    params: { holeDiameterMm: 1.2, boxLengthMm: 1500 },
+  } satisfies DemoInstrument,
 };
 
 export type DemoObservation = {
@@ -122,7 +306,7 @@ export function buildDemoScenario(seed = DEMO_SEED): DemoScenario {
   const days = listDays(DEMO_FIRST_DAY, DEMO_LAST_DAY);
   const observers: DemoObserver[] = OBSERVERS.map((o, i) => ({
     ...o,
-    trueK: round(0.6 + 0.8 * ((i * 7) % 14) / 13, 3),
+    trueK: round(0.6 + (0.8 * ((i * 7) % 14)) / 13, 3),
     spotsPerGroup: round(random.between(4.5, 8.5), 2),
     clearSkyChance: round(random.between(0.35, 0.7), 2),
     localHourUt: Math.floor(random.between(6, 14)),
@@ -154,7 +338,9 @@ export function buildDemoScenario(seed = DEMO_SEED): DemoScenario {
     { key: "ella", displayName: "Ella M.", trueK: 1.3, pin: "9312" },
     { key: "finn", displayName: "Finn T.", trueK: 1.8, pin: "5146" },
   ];
-  const classSessions = days.filter((d) => d >= DEMO_CLASSROOM.termStart && new Date(`${d}T00:00:00Z`).getUTCDay() === 3);
+  const classSessions = days.filter(
+    (d) => d >= DEMO_CLASSROOM.termStart && new Date(`${d}T00:00:00Z`).getUTCDay() === 3,
+  );
   for (const day of classSessions) {
     const raw = activity.get(day) ?? 0;
     for (const student of students) {
@@ -165,7 +351,14 @@ export function buildDemoScenario(seed = DEMO_SEED): DemoScenario {
         raw: raw / student.trueK,
         pending: day >= pendingFrom,
       });
-      observations.push({ ...obs, observedAt: new Date(`${day}T10:15:00Z`), northGroups: null, northSpots: null, southGroups: null, southSpots: null });
+      observations.push({
+        ...obs,
+        observedAt: new Date(`${day}T10:15:00Z`),
+        northGroups: null,
+        northSpots: null,
+        southGroups: null,
+        southSpots: null,
+      });
     }
   }
   return { observers, students, observations, classSessions, activity };
@@ -214,10 +407,17 @@ function drawObservation({
     // Each group keeps at least one spot; the rest fall where the groups are.
     const extra = spots - groups;
     const northExtra = groups === 0 ? 0 : random.binomial(extra, northGroups / groups);
-    split = { northGroups, northSpots: northGroups + northExtra, southGroups, southSpots: southGroups + extra - northExtra };
+    split = {
+      northGroups,
+      northSpots: northGroups + northExtra,
+      southGroups,
+      southSpots: southGroups + extra - northExtra,
+    };
   }
   const minute = Math.floor(random.between(0, 59));
-  const observedAt = new Date(`${day}T${String(observer.localHourUt).padStart(2, "0")}:${String(minute).padStart(2, "0")}:00Z`);
+  const observedAt = new Date(
+    `${day}T${String(observer.localHourUt).padStart(2, "0")}:${String(minute).padStart(2, "0")}:00Z`,
+  );
   return {
     observerKey: observer.key,
     utDate: day,

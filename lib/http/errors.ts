@@ -42,7 +42,9 @@ export class AppError extends Error {
   }
 
   toBody(): ErrorBody {
-    return { error: { code: this.code, message: this.message, ...(this.issues ? { issues: this.issues } : {}) } };
+    return {
+      error: { code: this.code, message: this.message, ...(this.issues ? { issues: this.issues } : {}) },
+    };
   }
 }
 

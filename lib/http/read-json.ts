@@ -7,10 +7,16 @@ export const DEFAULT_MAX_BODY_BYTES = 64 * 1024;
  * counted, so a client cannot make us buffer more than the limit by lying in
  * Content-Length.
  */
-export async function readJsonBody(request: Request, { maxBytes = DEFAULT_MAX_BODY_BYTES } = {}): Promise<unknown> {
+export async function readJsonBody(
+  request: Request,
+  { maxBytes = DEFAULT_MAX_BODY_BYTES } = {},
+): Promise<unknown> {
   const type = request.headers.get("content-type") ?? "";
   if (!type.toLowerCase().includes("application/json")) {
-    throw new AppError("unsupported_media_type", "Send the body as JSON with Content-Type: application/json.");
+    throw new AppError(
+      "unsupported_media_type",
+      "Send the body as JSON with Content-Type: application/json.",
+    );
   }
   const declared = Number(request.headers.get("content-length") ?? "0");
   if (declared > maxBytes) throw tooLarge(maxBytes);
@@ -39,5 +45,8 @@ export async function readJsonBody(request: Request, { maxBytes = DEFAULT_MAX_BO
 }
 
 function tooLarge(maxBytes: number): AppError {
-  return new AppError("payload_too_large", `The request body is larger than ${Math.round(maxBytes / 1024)} KB.`);
+  return new AppError(
+    "payload_too_large",
+    `The request body is larger than ${Math.round(maxBytes / 1024)} KB.`,
+  );
 }

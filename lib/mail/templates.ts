@@ -1,6 +1,7 @@
 /** Plain, short messages: people read these on a phone at the eyepiece. */
 
-const footer = "\n\n— Heliotally\nYou received this because someone asked for it at this address. If it was not you, ignore this message.";
+const footer =
+  "\n\n— Heliotally\nYou received this because someone asked for it at this address. If it was not you, ignore this message.";
 
 export function signInLinkMessage({ url, host }: { url: string; host: string }) {
   return {
@@ -19,5 +20,8 @@ export function passwordResetMessage({ url }: { url: string }) {
 }
 
 export function escapeHtml(text: string): string {
-  return text.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c] ?? c);
+  return text.replace(
+    /[&<>"']/g,
+    (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c] ?? c,
+  );
 }

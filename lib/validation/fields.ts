@@ -14,10 +14,18 @@ export function wholeNumber({ label, min, max }: { label: string; min: number; m
   return z.preprocess(
     toNumber,
     z
-      .number({ error: (issue) => (issue.input === undefined ? `Enter ${label}.` : `${capitalise(label)} must be a number.`) })
+      .number({
+        error: (issue) =>
+          issue.input === undefined ? `Enter ${label}.` : `${capitalise(label)} must be a number.`,
+      })
       .refine(Number.isFinite, { error: `${capitalise(label)} must be a number.` })
       .int({ error: `${capitalise(label)} must be a whole number.` })
-      .min(min, { error: min === 0 ? `${capitalise(label)} cannot be negative.` : `${capitalise(label)} must be at least ${min}.` })
+      .min(min, {
+        error:
+          min === 0
+            ? `${capitalise(label)} cannot be negative.`
+            : `${capitalise(label)} must be at least ${min}.`,
+      })
       .max(max, { error: `${capitalise(label)} cannot be more than ${max}.` }),
   );
 }

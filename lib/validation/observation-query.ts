@@ -9,19 +9,31 @@ const isoDay = z
 export const observationListQuerySchema = z
   .strictObject(
     {
-      page: z.coerce.number({ error: "page must be a number." }).int().min(1, { error: "page starts at 1." }).default(1),
+      page: z.coerce
+        .number({ error: "page must be a number." })
+        .int()
+        .min(1, { error: "page starts at 1." })
+        .default(1),
       pageSize: z.coerce
         .number({ error: "pageSize must be a number." })
         .int()
         .min(1, { error: "pageSize must be at least 1." })
         .max(100, { error: "pageSize can be at most 100." })
         .default(25),
-      sort: z.enum(["observedAt:desc", "observedAt:asc"], { error: "sort is observedAt:desc or observedAt:asc." }).default("observedAt:desc"),
+      sort: z
+        .enum(["observedAt:desc", "observedAt:asc"], { error: "sort is observedAt:desc or observedAt:asc." })
+        .default("observedAt:desc"),
       from: isoDay.optional(),
       to: isoDay.optional(),
     },
-    { error: (issue) => (issue.code === "unrecognized_keys" ? `Unknown query parameter: ${issue.keys.join(", ")}.` : undefined) },
+    {
+      error: (issue) =>
+        issue.code === "unrecognized_keys" ? `Unknown query parameter: ${issue.keys.join(", ")}.` : undefined,
+    },
   )
-  .refine((q) => !q.from || !q.to || q.from <= q.to, { path: ["to"], error: "'to' must not be before 'from'." });
+  .refine((q) => !q.from || !q.to || q.from <= q.to, {
+    path: ["to"],
+    error: "'to' must not be before 'from'.",
+  });
 
 export type ObservationListQueryInput = z.output<typeof observationListQuerySchema>;

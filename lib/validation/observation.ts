@@ -21,7 +21,10 @@ export function makeObservationInputSchema({ now = () => new Date() }: { now?: (
         observedAt: z
           .string({ error: "Enter the date and time of the observation (UT)." })
           .pipe(
-            z.iso.datetime({ offset: true, error: "Give the observation time as an ISO 8601 instant, e.g. 2026-03-14T09:30:00Z." }),
+            z.iso.datetime({
+              offset: true,
+              error: "Give the observation time as an ISO 8601 instant, e.g. 2026-03-14T09:30:00Z.",
+            }),
           )
           .transform((text) => new Date(text))
           .refine((d) => d.getTime() <= now().getTime() + FUTURE_TOLERANCE_MS, {
@@ -44,7 +47,10 @@ export function makeObservationInputSchema({ now = () => new Date() }: { now?: (
         southSpots: optionalWholeNumber({ label: "southern spots", min: 0, max: MAX_SPOTS }),
         notes: optionalText({ label: "notes", max: 2000 }),
       },
-      { error: (issue) => (issue.code === "unrecognized_keys" ? `Unknown field: ${issue.keys.join(", ")}.` : undefined) },
+      {
+        error: (issue) =>
+          issue.code === "unrecognized_keys" ? `Unknown field: ${issue.keys.join(", ")}.` : undefined,
+      },
     )
     .superRefine((value, ctx) => {
       checkCountPair({ groups: value.groups, spots: value.spots, prefix: "", ctx });
@@ -55,7 +61,11 @@ export function makeObservationInputSchema({ now = () => new Date() }: { now?: (
       if (given < 4) {
         for (const key of ["northGroups", "northSpots", "southGroups", "southSpots"] as const) {
           if (value[key] === undefined) {
-            ctx.addIssue({ code: "custom", path: [key], message: "Give all four hemisphere counts, or none." });
+            ctx.addIssue({
+              code: "custom",
+              path: [key],
+              message: "Give all four hemisphere counts, or none.",
+            });
           }
         }
         return;

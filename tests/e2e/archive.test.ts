@@ -61,7 +61,11 @@ describe("the Archive", () => {
     await page.getByRole("link", { name: "Observers", exact: true }).click();
     await page.waitForURL("**/observers");
     // The page streams in behind its loading state: wait for the first row before counting.
-    await page.getByRole("table", { name: /Observers with their newest k/ }).locator("tbody tr").first().waitFor();
+    await page
+      .getByRole("table", { name: /Observers with their newest k/ })
+      .locator("tbody tr")
+      .first()
+      .waitFor();
     await expect(
       page
         .getByRole("table", { name: /Observers with their newest k/ })

@@ -36,14 +36,18 @@ describe("an observer logs today's count and a coordinator sees it arrive", () =
     const kText = await page.getByText(/Relative number with k = /).textContent();
     const k = Number(/k = ([\d.]+)/.exec(kText ?? "")?.[1]);
     expect(k).toBeGreaterThan(0.3);
-    const preview = Number(/R = ([\d.]+)/.exec((await page.getByTestId("r-preview").textContent()) ?? "")?.[1]);
+    const preview = Number(
+      /R = ([\d.]+)/.exec((await page.getByTestId("r-preview").textContent()) ?? "")?.[1],
+    );
     // k is shown to two decimals, R is computed with the full k.
     expect(Math.abs(preview - 63 * k)).toBeLessThan(63 * 0.005 + 0.05);
     await page.fill("#notes", "E2E: thin cirrus to the west");
     await screenshot(page, "observer-log-form");
     await page.getByRole("button", { name: "Save count" }).click();
     await page.getByText("Count saved").waitFor();
-    await expect(page.getByRole("status").first().textContent()).resolves.toContain(`R = ${preview.toFixed(1)}`);
+    await expect(page.getByRole("status").first().textContent()).resolves.toContain(
+      `R = ${preview.toFixed(1)}`,
+    );
 
     await page.getByRole("link", { name: "Open the Logbook" }).click();
     await page.waitForURL("**/logbook");

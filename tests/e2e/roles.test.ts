@@ -35,7 +35,9 @@ describe("each demo role signs in and lands on its own start page", () => {
     await signIn(page, baseUrl, "observer@example.test");
     const response = await page.goto(`${baseUrl}/review`);
     expect(response?.status()).toBe(403);
-    await expect(page.getByRole("heading", { level: 1 }).textContent()).resolves.toContain("belongs to another role");
+    await expect(page.getByRole("heading", { level: 1 }).textContent()).resolves.toContain(
+      "belongs to another role",
+    );
     await screenshot(page, "observer-refused-review");
   });
 
@@ -54,6 +56,8 @@ describe("each demo role signs in and lands on its own start page", () => {
     await page.fill("#email", "educator@example.test");
     await page.fill("#password", "not the password");
     await page.getByRole("button", { name: "Sign in", exact: true }).click();
-    await expect(page.locator("form [role=alert]").first().textContent()).resolves.toContain("do not match an account");
+    await expect(page.locator("form [role=alert]").first().textContent()).resolves.toContain(
+      "do not match an account",
+    );
   });
 });

@@ -27,7 +27,9 @@ describe("sign-in by e-mailed link", () => {
     const db = createClient({ url: databaseUrl });
     let link: string | undefined;
     for (let i = 0; i < 40 && !link; i++) {
-      const rows = await db.execute("SELECT text_body FROM captured_mail WHERE to_address = 'educator@example.test' ORDER BY created_at DESC LIMIT 1");
+      const rows = await db.execute(
+        "SELECT text_body FROM captured_mail WHERE to_address = 'educator@example.test' ORDER BY created_at DESC LIMIT 1",
+      );
       link = /(http\S+callback\/email\S+)/.exec(String(rows.rows[0]?.text_body ?? ""))?.[1];
       if (!link) await new Promise((r) => setTimeout(r, 250));
     }

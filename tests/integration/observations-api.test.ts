@@ -49,7 +49,15 @@ describe("POST /api/v1/observations", () => {
     expect(res.status).toBe(201);
     const body = await res.json();
     // k is 1.0 before any coefficient is computed: R = 10·3 + 17 = 47.
-    expect(body).toMatchObject({ groups: 3, spots: 17, k: 1, kComputed: false, relativeNumber: 47, status: "submitted", utDate: "2026-03-14" });
+    expect(body).toMatchObject({
+      groups: 3,
+      spots: 17,
+      k: 1,
+      kComputed: false,
+      relativeNumber: 47,
+      status: "submitted",
+      utDate: "2026-03-14",
+    });
     expect(body.observerId).toBe(alice.observer!.id);
   });
 
@@ -72,7 +80,10 @@ describe("POST /api/v1/observations", () => {
   });
 
   it("stores the hemisphere split when it adds up", async () => {
-    const res = await post(valid(alice.instrument!.id, { northGroups: 2, northSpots: 11, southGroups: 1, southSpots: 6 }), alice.user.id);
+    const res = await post(
+      valid(alice.instrument!.id, { northGroups: 2, northSpots: 11, southGroups: 1, southSpots: 6 }),
+      alice.user.id,
+    );
     expect(res.status).toBe(201);
     expect(await res.json()).toMatchObject({ northGroups: 2, northSpots: 11, southGroups: 1, southSpots: 6 });
   });
@@ -104,7 +115,11 @@ describe("POST /api/v1/observations", () => {
     ["a count given as a word", (id) => valid(id, { groups: "three" }), "groups"],
     ["fewer spots than groups", (id) => valid(id, { groups: 5, spots: 3 }), "spots"],
     ["spots without groups", (id) => valid(id, { groups: 0, spots: 4 }), "spots"],
-    ["hemispheres that do not add up", (id) => valid(id, { northGroups: 1, northSpots: 5, southGroups: 1, southSpots: 5 }), "northGroups"],
+    [
+      "hemispheres that do not add up",
+      (id) => valid(id, { northGroups: 1, northSpots: 5, southGroups: 1, southSpots: 5 }),
+      "northGroups",
+    ],
     ["only part of the hemisphere split", (id) => valid(id, { northGroups: 1 }), "northSpots"],
     ["an instant in the future", (id) => valid(id, { observedAt: "2999-06-01T10:00:00Z" }), "observedAt"],
     ["an instant before 1610", (id) => valid(id, { observedAt: "1609-12-31T10:00:00Z" }), "observedAt"],
@@ -112,7 +127,11 @@ describe("POST /api/v1/observations", () => {
     ["seeing of 0", (id) => valid(id, { seeing: 0 }), "seeing"],
     ["seeing of 6", (id) => valid(id, { seeing: 6 }), "seeing"],
     ["an unknown field", (id) => ({ ...valid(id), weather: "sunny" }), ""],
-    ["a missing count", (id) => ({ observedAt: "2026-03-14T09:30:00Z", seeing: 2, instrumentId: id, groups: 3 }), "spots"],
+    [
+      "a missing count",
+      (id) => ({ observedAt: "2026-03-14T09:30:00Z", seeing: 2, instrumentId: id, groups: 3 }),
+      "spots",
+    ],
     ["an array instead of an object", () => [1, 2, 3], ""],
   ];
 
@@ -133,7 +152,9 @@ describe("POST /api/v1/observations", () => {
     const res = await post(valid(bob.instrument!.id), alice.user.id);
     expect(res.status).toBe(400);
     const body = await res.json();
-    expect(body.error.issues).toEqual([{ path: "instrumentId", message: expect.stringContaining("not one of yours") }]);
+    expect(body.error.issues).toEqual([
+      { path: "instrumentId", message: expect.stringContaining("not one of yours") },
+    ]);
     expect(await countObservations()).toBe(before);
   });
 
@@ -152,7 +173,9 @@ describe("POST /api/v1/observations", () => {
   });
 
   it("answers 415 when the body is not JSON", async () => {
-    const res = await post("groups=3", alice.user.id, { "content-type": "application/x-www-form-urlencoded" });
+    const res = await post("groups=3", alice.user.id, {
+      "content-type": "application/x-www-form-urlencoded",
+    });
     expect(res.status).toBe(415);
   });
 
@@ -180,7 +203,10 @@ describe("GET /api/v1/observations", () => {
       ["2026-01-10", 2, 9],
       ["2026-02-01", 3, 12],
     ] as const) {
-      await post(valid(bob.instrument!.id, { observedAt: `${day}T08:00:00Z`, groups: g, spots: s }), bob.user.id);
+      await post(
+        valid(bob.instrument!.id, { observedAt: `${day}T08:00:00Z`, groups: g, spots: s }),
+        bob.user.id,
+      );
     }
   });
 
@@ -196,14 +222,22 @@ describe("GET /api/v1/observations", () => {
 
   it("sorts oldest first and filters by UT date range", async () => {
     const res = await list(
-      await apiRequest("/api/v1/observations?sort=observedAt:asc&from=2026-01-01&to=2026-01-31", { userId: bob.user.id }),
+      await apiRequest("/api/v1/observations?sort=observedAt:asc&from=2026-01-01&to=2026-01-31", {
+        userId: bob.user.id,
+      }),
     );
     const body = await res.json();
     expect(body.data.map((r: { utDate: string }) => r.utDate)).toEqual(["2026-01-05", "2026-01-10"]);
   });
 
   it("answers 400 for a bad query", async () => {
-    for (const query of ["pageSize=1000", "from=2026-13-01", "from=2026-02-01&to=2026-01-01", "sort=groups", "colour=red"]) {
+    for (const query of [
+      "pageSize=1000",
+      "from=2026-13-01",
+      "from=2026-02-01&to=2026-01-01",
+      "sort=groups",
+      "colour=red",
+    ]) {
       const res = await list(await apiRequest(`/api/v1/observations?${query}`, { userId: bob.user.id }));
       expect(res.status, query).toBe(400);
     }
@@ -212,19 +246,28 @@ describe("GET /api/v1/observations", () => {
 
 describe("one observation", () => {
   it("is readable and changeable by its owner only; others get 404", async () => {
-    const created = await (await post(valid(alice.instrument!.id, { groups: 2, spots: 8 }), alice.user.id)).json();
+    const created = await (
+      await post(valid(alice.instrument!.id, { groups: 2, spots: 8 }), alice.user.id)
+    ).json();
     const url = `/api/v1/observations/${created.id}`;
     const ctx = { params: Promise.resolve({ id: created.id as string }) };
 
     expect((await getOne(await apiRequest(url, { userId: alice.user.id }), ctx)).status).toBe(200);
     for (const other of [bob, student, otherStudent]) {
       expect((await getOne(await apiRequest(url, { userId: other.user.id }), ctx)).status).toBe(404);
-      const put = await putOne(await apiRequest(url, { method: "PUT", userId: other.user.id, body: valid(other.instrument!.id) }), ctx);
+      const put = await putOne(
+        await apiRequest(url, { method: "PUT", userId: other.user.id, body: valid(other.instrument!.id) }),
+        ctx,
+      );
       expect(put.status).toBe(404);
     }
 
     const changed = await putOne(
-      await apiRequest(url, { method: "PUT", userId: alice.user.id, body: valid(alice.instrument!.id, { groups: 2, spots: 9 }) }),
+      await apiRequest(url, {
+        method: "PUT",
+        userId: alice.user.id,
+        body: valid(alice.instrument!.id, { groups: 2, spots: 9 }),
+      }),
       ctx,
     );
     expect(changed.status).toBe(200);
@@ -234,9 +277,14 @@ describe("one observation", () => {
   });
 
   it("keeps a student's observations from other students", async () => {
-    const created = await (await post(valid(student.instrument!.id, { groups: 1, spots: 3 }), student.user.id)).json();
+    const created = await (
+      await post(valid(student.instrument!.id, { groups: 1, spots: 3 }), student.user.id)
+    ).json();
     const ctx = { params: Promise.resolve({ id: created.id as string }) };
-    const res = await getOne(await apiRequest(`/api/v1/observations/${created.id}`, { userId: otherStudent.user.id }), ctx);
+    const res = await getOne(
+      await apiRequest(`/api/v1/observations/${created.id}`, { userId: otherStudent.user.id }),
+      ctx,
+    );
     expect(res.status).toBe(404);
     const own = await list(await apiRequest("/api/v1/observations", { userId: otherStudent.user.id }));
     expect((await own.json()).total).toBe(0);

@@ -13,23 +13,48 @@ export async function makeUser({ role, name }: { role: Role; name?: string }) {
   const db = getDb();
   const [user] = await db
     .insert(users)
-    .values({ name: name ?? `${role} ${counter}`, email: role === "student" ? null : `${role}${counter}@example.test`, role })
+    .values({
+      name: name ?? `${role} ${counter}`,
+      email: role === "student" ? null : `${role}${counter}@example.test`,
+      role,
+    })
     .returning();
   if (!user) throw new Error("no user");
   if (role !== "observer" && role !== "student") return { user, observer: null, instrument: null };
   const [observer] = await db
     .insert(observers)
-    .values({ userId: user.id, displayName: user.name ?? "x", code: `HT-T${String(counter).padStart(3, "0")}`, timeZone: "Europe/London" })
+    .values({
+      userId: user.id,
+      displayName: user.name ?? "x",
+      code: `HT-T${String(counter).padStart(3, "0")}`,
+      timeZone: "Europe/London",
+    })
     .returning();
-  const [instrument] = await db.insert(instruments).values({ observerId: observer!.id, name: "Test pinhole", kind: "pinhole" }).returning();
+  const [instrument] = await db
+    .insert(instruments)
+    .values({ observerId: observer!.id, name: "Test pinhole", kind: "pinhole" })
+    .returning();
   return { user, observer: observer!, instrument: instrument! };
 }
 
-export async function enrolStudent({ educatorUserId, studentUserId }: { educatorUserId: string; studentUserId: string }) {
+export async function enrolStudent({
+  educatorUserId,
+  studentUserId,
+}: {
+  educatorUserId: string;
+  studentUserId: string;
+}) {
   const db = getDb();
   const [room] = await db
     .insert(classrooms)
-    .values({ educatorUserId, name: "Test class", school: "Test school", termStart: "2026-01-01", termEnd: "2026-12-31", joinCode: `T-${++counter}` })
+    .values({
+      educatorUserId,
+      name: "Test class",
+      school: "Test school",
+      termStart: "2026-01-01",
+      termEnd: "2026-12-31",
+      joinCode: `T-${++counter}`,
+    })
     .returning();
   await db.insert(classroomMembers).values({ classroomId: room!.id, userId: studentUserId, pinHash: "x" });
   return room!;
@@ -43,7 +68,12 @@ export async function sessionCookie(userId: string): Promise<string> {
 
 export async function apiRequest(
   url: string,
-  { method = "GET", userId, body, headers = {} }: { method?: string; userId?: string; body?: unknown; headers?: Record<string, string> } = {},
+  {
+    method = "GET",
+    userId,
+    body,
+    headers = {},
+  }: { method?: string; userId?: string; body?: unknown; headers?: Record<string, string> } = {},
 ) {
   const h = new Headers(headers);
   if (userId) h.set("cookie", await sessionCookie(userId));

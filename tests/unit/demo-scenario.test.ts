@@ -45,6 +45,8 @@ describe("demo scenario (invented data)", () => {
     const perObserver = scenario.observations.filter((o) => o.observerKey === "wren").length;
     expect(perObserver).toBeLessThan(1096 * 0.8);
     expect(perObserver).toBeGreaterThan(1096 * 0.2);
-    expect(scenario.observations.filter((o) => o.notes?.includes("planted outlier")).length).toBeGreaterThanOrEqual(2);
+    expect(
+      scenario.observations.filter((o) => o.notes?.includes("planted outlier")).length,
+    ).toBeGreaterThanOrEqual(2);
   });
 });

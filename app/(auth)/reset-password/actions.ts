@@ -33,14 +33,21 @@ export async function requestResetAction(_prev: FormState, form: FormData): Prom
     }
   }
   // The same answer either way, so this form cannot reveal who has an account.
-  return { ok: true, message: `If ${parsed.data.email} has an account, a link to choose a new password is on its way.` };
+  return {
+    ok: true,
+    message: `If ${parsed.data.email} has an account, a link to choose a new password is on its way.`,
+  };
 }
 
 export async function resetPasswordAction(_prev: FormState, form: FormData): Promise<FormState> {
   const parsed = resetPasswordSchema.safeParse(formFields(form));
   if (!parsed.success) return { ok: false, fieldErrors: fieldErrorsFromZod(parsed.error) };
-  const claimed = await consumePasswordResetToken({ tokenHash: hashToken(parsed.data.token), now: new Date() });
-  if (!claimed) return { ok: false, message: "This link has expired or was already used. Ask for a new one." };
+  const claimed = await consumePasswordResetToken({
+    tokenHash: hashToken(parsed.data.token),
+    now: new Date(),
+  });
+  if (!claimed)
+    return { ok: false, message: "This link has expired or was already used. Ask for a new one." };
   await setUserPassword({ userId: claimed.userId, passwordHash: await hashPassword(parsed.data.password) });
   return { ok: true, message: "Your password is changed. You can sign in with it now." };
 }

@@ -16,7 +16,11 @@ const NEXT_AUTH_ERRORS: Record<string, string> = {
   SessionRequired: "Sign in to continue.",
 };
 
-export default async function SignInPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
+export default async function SignInPage({
+  searchParams,
+}: {
+  searchParams: Promise<Record<string, string | undefined>>;
+}) {
   const params = await searchParams;
   const demo = getEnv().HELIOTALLY_DEMO;
   const accounts = [
@@ -30,18 +34,31 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
       <h1 className="text-2xl font-semibold text-ink-950">Sign in to Heliotally</h1>
       <SignInForm
         callbackUrl={params.callbackUrl}
-        initialError={params.error ? (NEXT_AUTH_ERRORS[params.error] ?? "Sign-in failed. Try again.") : undefined}
+        initialError={
+          params.error ? (NEXT_AUTH_ERRORS[params.error] ?? "Sign-in failed. Try again.") : undefined
+        }
       />
       <p className="text-sm text-ink-600">
-        New here? <Link href="/sign-up" className="font-semibold text-corona-700 underline">Join as an observer</Link>.
-        Forgot your password? <Link href="/reset-password" className="font-semibold text-corona-700 underline">Choose a new one</Link>.
+        New here?{" "}
+        <Link href="/sign-up" className="font-semibold text-corona-700 underline">
+          Join as an observer
+        </Link>
+        . Forgot your password?{" "}
+        <Link href="/reset-password" className="font-semibold text-corona-700 underline">
+          Choose a new one
+        </Link>
+        .
       </p>
       <StudentSignInSection />
       {demo ? (
-        <section aria-label="Demo accounts" className="rounded-lg border border-dashed border-ink-300 bg-white p-4 text-sm">
+        <section
+          aria-label="Demo accounts"
+          className="rounded-lg border border-dashed border-ink-300 bg-white p-4 text-sm"
+        >
           <h2 className="font-semibold text-ink-900">Demo accounts (invented network)</h2>
           <p className="mt-1 text-ink-600">
-            Every demo account uses the password <code className="rounded bg-ink-100 px-1">{DEMO_PASSWORD}</code>.
+            Every demo account uses the password{" "}
+            <code className="rounded bg-ink-100 px-1">{DEMO_PASSWORD}</code>.
           </p>
           <ul className="mt-2 grid gap-1">
             {accounts.map((a) => (

@@ -12,7 +12,12 @@ export async function signUpAction(_prev: FormState, form: FormData): Promise<Fo
   if (!parsed.success) return { ok: false, fieldErrors: fieldErrorsFromZod(parsed.error) };
   const input = parsed.data;
   if (await getUserByEmail({ email: input.email })) {
-    return { ok: false, fieldErrors: { email: "An account with this e-mail address exists. Sign in instead, or reset its password." } };
+    return {
+      ok: false,
+      fieldErrors: {
+        email: "An account with this e-mail address exists. Sign in instead, or reset its password.",
+      },
+    };
   }
   await createObserverAccount({
     name: input.name,

@@ -10,8 +10,8 @@ export default function SignUpPage() {
       <div>
         <h1 className="text-2xl font-semibold text-ink-950">Join as an observer</h1>
         <p className="mt-1 text-sm text-ink-600">
-          Your Logbook is private to you and your network&apos;s coordinators. You can add your instruments after
-          signing up.
+          Your Logbook is private to you and your network&apos;s coordinators. You can add your instruments
+          after signing up.
         </p>
       </div>
       <SignUpForm />

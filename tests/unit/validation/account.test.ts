@@ -4,10 +4,19 @@ import { credentialsSchema, signUpSchema } from "@/lib/validation/account";
 
 describe("account schemas", () => {
   it("normalises e-mail addresses", () => {
-    expect(credentialsSchema.parse({ email: "  Wren@Example.TEST ", password: "x" }).email).toBe("wren@example.test");
+    expect(credentialsSchema.parse({ email: "  Wren@Example.TEST ", password: "x" }).email).toBe(
+      "wren@example.test",
+    );
   });
 
-  const ok = { name: "Wren", email: "wren@example.test", password: "long enough pw", confirmPassword: "long enough pw", country: "gb", timeZone: "Europe/London" };
+  const ok = {
+    name: "Wren",
+    email: "wren@example.test",
+    password: "long enough pw",
+    confirmPassword: "long enough pw",
+    country: "gb",
+    timeZone: "Europe/London",
+  };
 
   it("accepts a complete sign-up and upper-cases the country", () => {
     expect(signUpSchema.parse(ok).country).toBe("GB");

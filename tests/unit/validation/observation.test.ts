@@ -29,7 +29,9 @@ describe("observation input schema", () => {
   });
 
   it("treats an empty box as missing, not as zero", () => {
-    expect(issuesOf({ ...base, groups: "" })).toEqual([{ path: "groups", message: "Enter the number of groups." }]);
+    expect(issuesOf({ ...base, groups: "" })).toEqual([
+      { path: "groups", message: "Enter the number of groups." },
+    ]);
   });
 
   it.each([
@@ -60,14 +62,32 @@ describe("observation input schema", () => {
 
   it("checks that hemispheres add up to the totals", () => {
     const issues = issuesOf({ ...base, northGroups: 2, northSpots: 10, southGroups: 2, southSpots: 7 });
-    expect(issues).toEqual([{ path: "northGroups", message: expect.stringContaining("(2 + 2) must add up to the total of 3") }]);
+    expect(issues).toEqual([
+      { path: "northGroups", message: expect.stringContaining("(2 + 2) must add up to the total of 3") },
+    ]);
     expect(issuesOf({ ...base, northGroups: 2, northSpots: 10, southGroups: 1, southSpots: 7 })).toEqual([]);
   });
 
   it("checks each hemisphere on its own", () => {
-    const issues = issuesOf({ ...base, groups: 3, spots: 17, northGroups: 3, northSpots: 17, southGroups: 0, southSpots: 0 });
+    const issues = issuesOf({
+      ...base,
+      groups: 3,
+      spots: 17,
+      northGroups: 3,
+      northSpots: 17,
+      southGroups: 0,
+      southSpots: 0,
+    });
     expect(issues).toEqual([]);
-    const bad = issuesOf({ ...base, groups: 2, spots: 17, northGroups: 2, northSpots: 1, southGroups: 0, southSpots: 16 });
+    const bad = issuesOf({
+      ...base,
+      groups: 2,
+      spots: 17,
+      northGroups: 2,
+      northSpots: 1,
+      southGroups: 0,
+      southSpots: 16,
+    });
     expect(bad.map((i) => i.path)).toEqual(expect.arrayContaining(["northSpots", "southSpots"]));
   });
 

@@ -11,18 +11,30 @@ export function RoleForm({ userId, role }: { userId: string; role: Role }) {
   return (
     <form action={action} className="flex items-center gap-2">
       <input type="hidden" name="userId" value={userId} />
-      <select name="role" defaultValue={role} aria-label="Role" className="rounded border border-ink-200 px-2 py-1 text-sm">
+      <select
+        name="role"
+        defaultValue={role}
+        aria-label="Role"
+        className="rounded border border-ink-200 px-2 py-1 text-sm"
+      >
         {ROLES.map((r) => (
           <option key={r} value={r}>
             {ROLE_LABELS[r]}
           </option>
         ))}
       </select>
-      <button type="submit" disabled={pending} className="rounded border border-ink-200 px-2 py-1 text-xs font-semibold hover:bg-ink-50">
+      <button
+        type="submit"
+        disabled={pending}
+        className="rounded border border-ink-200 px-2 py-1 text-xs font-semibold hover:bg-ink-50"
+      >
         Save
       </button>
       {state.message ? (
-        <span role={state.ok ? "status" : "alert"} className={`text-xs ${state.ok ? "text-meadow-700" : "text-caution-700"}`}>
+        <span
+          role={state.ok ? "status" : "alert"}
+          className={`text-xs ${state.ok ? "text-meadow-700" : "text-caution-700"}`}
+        >
           {state.message}
         </span>
       ) : null}

@@ -20,7 +20,9 @@ export default async function CapturedMailPage() {
         lead={`Messages caught by the local mail sink on ${env.SMTP_HOST}:${env.SMTP_PORT}. Nothing here left this machine.`}
       />
       {!env.MAIL_SINK ? (
-        <p className="text-sm text-ink-600">The local mail sink is off (MAIL_SINK=false): mail goes to the configured SMTP server.</p>
+        <p className="text-sm text-ink-600">
+          The local mail sink is off (MAIL_SINK=false): mail goes to the configured SMTP server.
+        </p>
       ) : messages.length === 0 ? (
         <p className="rounded-lg border border-ink-100 bg-white p-6 text-sm text-ink-600">
           No mail yet. Ask for a sign-in link or a password reset to see one arrive.
@@ -33,7 +35,9 @@ export default async function CapturedMailPage() {
               <p className="text-xs text-ink-500">
                 to {m.toAddress} · {formatUt(m.receivedAt)}
               </p>
-              <pre className="mt-2 font-sans text-sm break-words whitespace-pre-wrap text-ink-800">{m.textBody}</pre>
+              <pre className="mt-2 font-sans text-sm break-words whitespace-pre-wrap text-ink-800">
+                {m.textBody}
+              </pre>
             </li>
           ))}
         </ul>

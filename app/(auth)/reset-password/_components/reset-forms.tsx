@@ -14,9 +14,17 @@ export function RequestResetForm() {
   const [state, action, pending] = useActionState(requestResetAction, { ok: false });
   return (
     <form noValidate className={card} action={action}>
-      {state.message ? <FormMessage tone={state.ok ? "success" : "error"}>{state.message}</FormMessage> : null}
+      {state.message ? (
+        <FormMessage tone={state.ok ? "success" : "error"}>{state.message}</FormMessage>
+      ) : null}
       <Field id="email" label="E-mail" error={state.fieldErrors?.email}>
-        <Input id="email" name="email" type="email" autoComplete="email" aria-invalid={Boolean(state.fieldErrors?.email)} />
+        <Input
+          id="email"
+          name="email"
+          type="email"
+          autoComplete="email"
+          aria-invalid={Boolean(state.fieldErrors?.email)}
+        />
       </Field>
       <Button type="submit" disabled={pending}>
         {pending ? "Sending…" : "E-mail me a link"}
@@ -30,14 +38,28 @@ export function NewPasswordForm({ token }: { token: string }) {
   const errors = state.fieldErrors ?? {};
   return (
     <form noValidate className={card} action={action}>
-      {state.message ? <FormMessage tone={state.ok ? "success" : "error"}>{state.message}</FormMessage> : null}
+      {state.message ? (
+        <FormMessage tone={state.ok ? "success" : "error"}>{state.message}</FormMessage>
+      ) : null}
       {errors.token ? <FormMessage tone="error">{errors.token}</FormMessage> : null}
       <input type="hidden" name="token" value={token} />
       <Field id="password" label="New password" hint="At least 10 characters." error={errors.password}>
-        <Input id="password" name="password" type="password" autoComplete="new-password" aria-invalid={Boolean(errors.password)} />
+        <Input
+          id="password"
+          name="password"
+          type="password"
+          autoComplete="new-password"
+          aria-invalid={Boolean(errors.password)}
+        />
       </Field>
       <Field id="confirmPassword" label="New password again" error={errors.confirmPassword}>
-        <Input id="confirmPassword" name="confirmPassword" type="password" autoComplete="new-password" aria-invalid={Boolean(errors.confirmPassword)} />
+        <Input
+          id="confirmPassword"
+          name="confirmPassword"
+          type="password"
+          autoComplete="new-password"
+          aria-invalid={Boolean(errors.confirmPassword)}
+        />
       </Field>
       <Button type="submit" disabled={pending || state.ok}>
         {pending ? "Saving…" : "Save new password"}

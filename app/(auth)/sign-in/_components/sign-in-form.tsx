@@ -18,7 +18,8 @@ export function SignInForm({ callbackUrl, initialError }: { callbackUrl?: string
   );
   const [busy, setBusy] = useState(false);
   // Only same-site paths are followed after sign-in.
-  const target = callbackUrl && callbackUrl.startsWith("/") && !callbackUrl.startsWith("//") ? callbackUrl : "/";
+  const target =
+    callbackUrl && callbackUrl.startsWith("/") && !callbackUrl.startsWith("//") ? callbackUrl : "/";
 
   async function onPassword(form: FormData) {
     const parsed = credentialsSchema.safeParse(Object.fromEntries(form));
@@ -50,8 +51,14 @@ export function SignInForm({ callbackUrl, initialError }: { callbackUrl?: string
     setBusy(false);
     setMessage(
       result?.error
-        ? { tone: "error", text: "We could not send a sign-in link just now. Try again, or use your password." }
-        : { tone: "success", text: `If ${parsed.data.email} has an account, a sign-in link is on its way. It works once, for 24 hours.` },
+        ? {
+            tone: "error",
+            text: "We could not send a sign-in link just now. Try again, or use your password.",
+          }
+        : {
+            tone: "success",
+            text: `If ${parsed.data.email} has an account, a sign-in link is on its way. It works once, for 24 hours.`,
+          },
     );
   }
 
@@ -63,10 +70,22 @@ export function SignInForm({ callbackUrl, initialError }: { callbackUrl?: string
     >
       {message ? <FormMessage tone={message.tone}>{message.text}</FormMessage> : null}
       <Field id="email" label="E-mail" error={errors.email}>
-        <Input id="email" name="email" type="email" autoComplete="email" aria-invalid={Boolean(errors.email)} />
+        <Input
+          id="email"
+          name="email"
+          type="email"
+          autoComplete="email"
+          aria-invalid={Boolean(errors.email)}
+        />
       </Field>
       <Field id="password" label="Password" error={errors.password}>
-        <Input id="password" name="password" type="password" autoComplete="current-password" aria-invalid={Boolean(errors.password)} />
+        <Input
+          id="password"
+          name="password"
+          type="password"
+          autoComplete="current-password"
+          aria-invalid={Boolean(errors.password)}
+        />
       </Field>
       <Button type="submit" disabled={busy}>
         {busy ? "Signing in…" : "Sign in"}

@@ -53,25 +53,56 @@ export function SignUpForm() {
         credentials.current = { email: parsed.data.email, password: parsed.data.password };
       }}
     >
-      {state.message ? <FormMessage tone={state.ok ? "success" : "error"}>{state.message}</FormMessage> : null}
+      {state.message ? (
+        <FormMessage tone={state.ok ? "success" : "error"}>{state.message}</FormMessage>
+      ) : null}
       {state.ok ? <FormMessage tone="success">Welcome! Opening your Logbook…</FormMessage> : null}
       {errors?._form ? <FormMessage tone="error">{errors._form}</FormMessage> : null}
       <Field id="name" label="Name shown to your network" error={errors?.name}>
         <Input id="name" name="name" autoComplete="name" aria-invalid={Boolean(errors?.name)} />
       </Field>
       <Field id="email" label="E-mail" error={errors?.email}>
-        <Input id="email" name="email" type="email" autoComplete="email" aria-invalid={Boolean(errors?.email)} />
+        <Input
+          id="email"
+          name="email"
+          type="email"
+          autoComplete="email"
+          aria-invalid={Boolean(errors?.email)}
+        />
       </Field>
       <Field id="password" label="Password" hint="At least 10 characters." error={errors?.password}>
-        <Input id="password" name="password" type="password" autoComplete="new-password" aria-invalid={Boolean(errors?.password)} />
+        <Input
+          id="password"
+          name="password"
+          type="password"
+          autoComplete="new-password"
+          aria-invalid={Boolean(errors?.password)}
+        />
       </Field>
       <Field id="confirmPassword" label="Password again" error={errors?.confirmPassword}>
-        <Input id="confirmPassword" name="confirmPassword" type="password" autoComplete="new-password" aria-invalid={Boolean(errors?.confirmPassword)} />
+        <Input
+          id="confirmPassword"
+          name="confirmPassword"
+          type="password"
+          autoComplete="new-password"
+          aria-invalid={Boolean(errors?.confirmPassword)}
+        />
       </Field>
       <Field id="country" label="Country (two-letter code, optional)" error={errors?.country}>
-        <Input id="country" name="country" maxLength={2} className="w-24 uppercase" aria-invalid={Boolean(errors?.country)} />
+        <Input
+          id="country"
+          name="country"
+          maxLength={2}
+          className="w-24 uppercase"
+          aria-invalid={Boolean(errors?.country)}
+        />
       </Field>
-      <Field id="timeZone" label="Time zone" hint="Used to show your local time beside UT." error={errors?.timeZone}>
+      <Field
+        id="timeZone"
+        label="Time zone"
+        hint="Used to show your local time beside UT."
+        error={errors?.timeZone}
+      >
         <Input id="timeZone" name="timeZone" ref={timeZoneInput} aria-invalid={Boolean(errors?.timeZone)} />
       </Field>
       <Button type="submit" disabled={pending || state.ok}>

@@ -48,7 +48,10 @@ export function LogbookTable({ timeZone }: { timeZone: string }) {
         header: "Observed (UT)",
         enableSorting: true,
         cell: (info) => (
-          <Link href={`/logbook/${info.row.original.id}`} className="font-medium text-ink-900 underline-offset-2 hover:underline">
+          <Link
+            href={`/logbook/${info.row.original.id}`}
+            className="font-medium text-ink-900 underline-offset-2 hover:underline"
+          >
             <span title={formatLocal(info.getValue(), timeZone)}>{formatUt(info.getValue())}</span>
           </Link>
         ),
@@ -63,7 +66,11 @@ export function LogbookTable({ timeZone }: { timeZone: string }) {
         enableSorting: false,
         cell: (info) => <strong>{formatRelativeNumber(info.getValue())}</strong>,
       }),
-      column.accessor("status", { header: "Status", enableSorting: false, cell: (info) => <StatusBadge status={info.getValue()} /> }),
+      column.accessor("status", {
+        header: "Status",
+        enableSorting: false,
+        cell: (info) => <StatusBadge status={info.getValue()} />,
+      }),
       column.accessor("photoId", {
         header: "Photo",
         enableSorting: false,
@@ -72,7 +79,12 @@ export function LogbookTable({ timeZone }: { timeZone: string }) {
           return photoId ? (
             <Link href={`/logbook/${info.row.original.id}`} aria-label="Open the observation with its photo">
               {/* eslint-disable-next-line @next/next/no-img-element -- a private thumbnail behind a signed redirect */}
-              <img src={`/api/v1/photos/${photoId}/image?variant=thumbnail`} alt="" loading="lazy" className="size-9 rounded bg-ink-900 object-cover" />
+              <img
+                src={`/api/v1/photos/${photoId}/image?variant=thumbnail`}
+                alt=""
+                loading="lazy"
+                className="size-9 rounded bg-ink-900 object-cover"
+              />
             </Link>
           ) : null;
         },
@@ -143,7 +155,14 @@ export function LogbookTable({ timeZone }: { timeZone: string }) {
           />
         </label>
         {filtered ? (
-          <button type="button" className="pb-2 text-sm text-corona-700 underline" onClick={() => { setFrom(""); setTo(""); }}>
+          <button
+            type="button"
+            className="pb-2 text-sm text-corona-700 underline"
+            onClick={() => {
+              setFrom("");
+              setTo("");
+            }}
+          >
             Clear dates
           </button>
         ) : null}
@@ -171,7 +190,11 @@ export function LogbookTable({ timeZone }: { timeZone: string }) {
             "No counts in these dates. Widen the range or clear the dates."
           ) : (
             <>
-              Your Logbook is empty. <Link href="/logbook/new" className="font-semibold text-corona-700 underline">Log your first count</Link> after your next clear-sky observation.
+              Your Logbook is empty.{" "}
+              <Link href="/logbook/new" className="font-semibold text-corona-700 underline">
+                Log your first count
+              </Link>{" "}
+              after your next clear-sky observation.
             </>
           )
         }

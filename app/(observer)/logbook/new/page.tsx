@@ -20,7 +20,10 @@ export default async function NewObservationPage() {
   return (
     <div className="grid gap-8 lg:grid-cols-[2fr_1fr]">
       <div>
-        <PageHeader title="Log a count" lead="Count the groups (g) and the individual spots (s) you see on the projected disk." />
+        <PageHeader
+          title="Log a count"
+          lead="Count the groups (g) and the individual spots (s) you see on the projected disk."
+        />
         {options.length === 0 ? (
           <p className="rounded-lg border border-ink-100 bg-white p-6 text-sm text-ink-700">
             You have no instruments in use yet.{" "}
@@ -30,7 +33,11 @@ export default async function NewObservationPage() {
             , then come back to log your count.
           </p>
         ) : (
-          <ObservationForm instruments={options} timeZone={observer.timeZone} nowIso={new Date().toISOString()} />
+          <ObservationForm
+            instruments={options}
+            timeZone={observer.timeZone}
+            nowIso={new Date().toISOString()}
+          />
         )}
         <p className="mt-4 text-sm text-ink-600">
           <Link href="/logbook" className="text-corona-700 underline">
@@ -43,8 +50,9 @@ export default async function NewObservationPage() {
         <section className="rounded-lg border border-ink-100 bg-white p-4 text-sm text-ink-700">
           <h2 className="font-semibold text-ink-900">How the relative number is made</h2>
           <p className="mt-1">
-            <strong>R = k(10g + s)</strong>: ten for each group plus one for each spot, scaled by your personal
-            coefficient <em>k</em>, which your coordinator finds by comparing your counts with the network&apos;s.
+            <strong>R = k(10g + s)</strong>: ten for each group plus one for each spot, scaled by your
+            personal coefficient <em>k</em>, which your coordinator finds by comparing your counts with the
+            network&apos;s.
           </p>
         </section>
       </div>

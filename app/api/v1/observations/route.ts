@@ -35,12 +35,15 @@ export const POST = handleRoute(async (request: Request) => {
   const body = await readJsonBody(request);
   const parsed = observationInputSchema.safeParse(body);
   if (!parsed.success) throw invalidInput(parsed.error);
-  return withIdempotency({ request, userId: user.id, scope: "POST /api/v1/observations", body }, async () => ({
-    status: 201,
-    body: await submitObservation({
-      observerId: observer.id,
-      input: parsed.data,
-      source: request.headers.get("x-heliotally-client") === "logbook-form" ? "form" : "api",
+  return withIdempotency(
+    { request, userId: user.id, scope: "POST /api/v1/observations", body },
+    async () => ({
+      status: 201,
+      body: await submitObservation({
+        observerId: observer.id,
+        input: parsed.data,
+        source: request.headers.get("x-heliotally-client") === "logbook-form" ? "form" : "api",
+      }),
     }),
-  }));
+  );
 });

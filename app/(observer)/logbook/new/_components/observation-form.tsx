@@ -73,12 +73,22 @@ export function ObservationForm({
   const preview = useMemo(() => {
     const g = Number(values.groups);
     const s = Number(values.spots);
-    if (values.groups === "" || values.spots === "" || !Number.isInteger(g) || !Number.isInteger(s) || g < 0 || s < 0) return null;
+    if (
+      values.groups === "" ||
+      values.spots === "" ||
+      !Number.isInteger(g) ||
+      !Number.isInteger(s) ||
+      g < 0 ||
+      s < 0
+    )
+      return null;
     return computeRelativeNumber({ k: instrument?.k ?? 1, groups: g, spots: s });
   }, [values.groups, values.spots, instrument]);
 
-  const set = (name: string) => (event: React.ChangeEvent<HTMLInputElement | HTMLSelectElement | HTMLTextAreaElement>) =>
-    setValues((v) => ({ ...v, [name]: event.target.value }));
+  const set =
+    (name: string) =>
+    (event: React.ChangeEvent<HTMLInputElement | HTMLSelectElement | HTMLTextAreaElement>) =>
+      setValues((v) => ({ ...v, [name]: event.target.value }));
 
   async function submit(event: React.FormEvent) {
     event.preventDefault();
@@ -101,7 +111,9 @@ export function ObservationForm({
     setBusy(true);
     try {
       const payload = Object.fromEntries(
-        Object.entries(draft).filter(([, v]) => v !== "" && v !== undefined).map(([k, v]) => [k, COUNT_FIELDS.includes(k as never) || k === "seeing" ? Number(v) : v]),
+        Object.entries(draft)
+          .filter(([, v]) => v !== "" && v !== undefined)
+          .map(([k, v]) => [k, COUNT_FIELDS.includes(k as never) || k === "seeing" ? Number(v) : v]),
       );
       const res = await fetch(endpoint, {
         method: "POST",
@@ -140,12 +152,15 @@ export function ObservationForm({
           R = {formatRelativeNumber(created.relativeNumber)}
         </p>
         <p className="text-sm text-ink-700">
-          {created.k.toFixed(2)} × (10 × {created.groups} + {created.spots}). It waits on the Review desk until your
-          coordinator accepts it into the series.
+          {created.k.toFixed(2)} × (10 × {created.groups} + {created.spots}). It waits on the Review desk
+          until your coordinator accepts it into the series.
         </p>
         {photo ? <PhotoAfterSave file={photo} assist={assist} observationId={created.id} /> : null}
         <div className="flex gap-3">
-          <Link href="/logbook" className="rounded-md bg-corona-500 px-4 py-2 text-sm font-semibold text-umbra">
+          <Link
+            href="/logbook"
+            className="rounded-md bg-corona-500 px-4 py-2 text-sm font-semibold text-umbra"
+          >
             Open the Logbook
           </Link>
           <Link
@@ -159,7 +174,16 @@ export function ObservationForm({
             className="rounded-md border border-ink-200 bg-white px-4 py-2 text-sm font-semibold"
             onClick={() => {
               setCreated(null);
-              setValues((v) => ({ ...v, groups: "", spots: "", northGroups: "", northSpots: "", southGroups: "", southSpots: "", notes: "" }));
+              setValues((v) => ({
+                ...v,
+                groups: "",
+                spots: "",
+                northGroups: "",
+                northSpots: "",
+                southGroups: "",
+                southSpots: "",
+                notes: "",
+              }));
               idempotencyKey.current = null;
               setPhoto(null);
               setAssist(null);
@@ -173,19 +197,38 @@ export function ObservationForm({
   }
 
   return (
-    <form noValidate onSubmit={submit} className="flex flex-col gap-5 rounded-lg border border-ink-100 bg-white p-6 shadow-sm">
+    <form
+      noValidate
+      onSubmit={submit}
+      className="flex flex-col gap-5 rounded-lg border border-ink-100 bg-white p-6 shadow-sm"
+    >
       {message ? <FormMessage tone="error">{message}</FormMessage> : null}
       <div className="grid gap-4 sm:grid-cols-2">
         <Field id="utDate" label="Date (UT)" error={errors.observedAt}>
-          <Input id="utDate" type="date" value={date} onChange={(e) => setDate(e.target.value)} aria-invalid={Boolean(errors.observedAt)} />
+          <Input
+            id="utDate"
+            type="date"
+            value={date}
+            onChange={(e) => setDate(e.target.value)}
+            aria-invalid={Boolean(errors.observedAt)}
+          />
         </Field>
-        <Field id="utTime" label="Time (UT)" hint={localTime ? `Your local time: ${localTime} (${timeZone})` : undefined}>
+        <Field
+          id="utTime"
+          label="Time (UT)"
+          hint={localTime ? `Your local time: ${localTime} (${timeZone})` : undefined}
+        >
           <Input id="utTime" type="time" value={time} onChange={(e) => setTime(e.target.value)} />
         </Field>
       </div>
       <div className="grid gap-4 sm:grid-cols-2">
         <Field id="instrumentId" label="Instrument" error={errors.instrumentId}>
-          <Select id="instrumentId" value={values.instrumentId} onChange={set("instrumentId")} aria-invalid={Boolean(errors.instrumentId)}>
+          <Select
+            id="instrumentId"
+            value={values.instrumentId}
+            onChange={set("instrumentId")}
+            aria-invalid={Boolean(errors.instrumentId)}
+          >
             {instruments.map((i) => (
               <option key={i.id} value={i.id}>
                 {i.name}
@@ -193,8 +236,18 @@ export function ObservationForm({
             ))}
           </Select>
         </Field>
-        <Field id="seeing" label="Seeing" hint="1 is a steady, sharp disk; 5 is boiling." error={errors.seeing}>
-          <Select id="seeing" value={values.seeing} onChange={set("seeing")} aria-invalid={Boolean(errors.seeing)}>
+        <Field
+          id="seeing"
+          label="Seeing"
+          hint="1 is a steady, sharp disk; 5 is boiling."
+          error={errors.seeing}
+        >
+          <Select
+            id="seeing"
+            value={values.seeing}
+            onChange={set("seeing")}
+            aria-invalid={Boolean(errors.seeing)}
+          >
             {Object.entries(SEEING_LABELS).map(([value, label]) => (
               <option key={value} value={value}>
                 {label}
@@ -205,13 +258,27 @@ export function ObservationForm({
       </div>
       <div className="grid gap-4 sm:grid-cols-3">
         <Field id="groups" label="Groups (g)" error={errors.groups}>
-          <Input id="groups" inputMode="numeric" value={values.groups} onChange={set("groups")} aria-invalid={Boolean(errors.groups)} />
+          <Input
+            id="groups"
+            inputMode="numeric"
+            value={values.groups}
+            onChange={set("groups")}
+            aria-invalid={Boolean(errors.groups)}
+          />
         </Field>
         <Field id="spots" label="Spots (s)" error={errors.spots}>
-          <Input id="spots" inputMode="numeric" value={values.spots} onChange={set("spots")} aria-invalid={Boolean(errors.spots)} />
+          <Input
+            id="spots"
+            inputMode="numeric"
+            value={values.spots}
+            onChange={set("spots")}
+            aria-invalid={Boolean(errors.spots)}
+          />
         </Field>
         <div className="flex flex-col justify-end rounded-md bg-corona-50 px-3 py-2">
-          <span className="text-xs text-ink-600">Relative number with k = {(instrument?.k ?? 1).toFixed(2)}</span>
+          <span className="text-xs text-ink-600">
+            Relative number with k = {(instrument?.k ?? 1).toFixed(2)}
+          </span>
           <span className="text-xl font-semibold text-ink-950" data-testid="r-preview">
             R = {preview === null ? "—" : formatRelativeNumber(preview)}
           </span>
@@ -219,7 +286,12 @@ export function ObservationForm({
       </div>
       <div>
         <label className="flex items-center gap-2 text-sm font-medium text-ink-800">
-          <input type="checkbox" checked={split} onChange={(e) => setSplit(e.target.checked)} className="size-4 accent-corona-600" />
+          <input
+            type="checkbox"
+            checked={split}
+            onChange={(e) => setSplit(e.target.checked)}
+            className="size-4 accent-corona-600"
+          />
           I also counted each hemisphere
         </label>
         {split ? (
@@ -233,7 +305,13 @@ export function ObservationForm({
               ] as const
             ).map(([name, label]) => (
               <Field key={name} id={name} label={label} error={errors[name]}>
-                <Input id={name} inputMode="numeric" value={values[name]} onChange={set(name)} aria-invalid={Boolean(errors[name])} />
+                <Input
+                  id={name}
+                  inputMode="numeric"
+                  value={values[name]}
+                  onChange={set(name)}
+                  aria-invalid={Boolean(errors[name])}
+                />
               </Field>
             ))}
           </div>
@@ -252,7 +330,12 @@ export function ObservationForm({
           onUseSpotCount={(spots) => setValues((v) => ({ ...v, spots: String(spots) }))}
         />
       )}
-      <Field id="notes" label="Notes (optional)" hint="Clouds, haze, anything a reviewer should know." error={errors.notes}>
+      <Field
+        id="notes"
+        label="Notes (optional)"
+        hint="Clouds, haze, anything a reviewer should know."
+        error={errors.notes}
+      >
         <TextArea id="notes" rows={3} value={values.notes} onChange={set("notes")} />
       </Field>
       <Button type="submit" disabled={busy} className="self-start">
@@ -262,7 +345,9 @@ export function ObservationForm({
   );
 }
 
-function collectErrors(issues: Array<{ path: PropertyKey[] | string; message: string }>): Record<string, string> {
+function collectErrors(
+  issues: Array<{ path: PropertyKey[] | string; message: string }>,
+): Record<string, string> {
   const out: Record<string, string> = {};
   for (const issue of issues) {
     const key = Array.isArray(issue.path) ? issue.path.map(String).join(".") : issue.path;

@@ -1,5 +1,5 @@
 /**
- * `npm test`: lint, typecheck, unit, integration and end-to-end tests, in
+ * `npm test`: lint, formatting, typecheck, unit, integration and end-to-end tests, in
  * that order, stopping at the first failure. Ends with one summary line
  * ("tests: N passed, N failed") counted from Vitest's JSON reports.
  */

@@ -1,6 +1,7 @@
 import "server-only";
 
 import { formatDayNumber } from "@/lib/counts/series";
+import { makeOrderedIdMaker } from "@/lib/ids/ordered-ids";
 import {
   appendPackedUnit,
   createAcceptedCounts,
@@ -174,11 +175,13 @@ export async function runFullRecompute({
     lap("series");
 
     await onProgress(0.88, "Writing the new series");
-    const kRows = fitted.fits.map((fit) => {
+    // Ordered ids: thousands of random ones would be written all over the key's index.
+    const makeId = makeOrderedIdMaker({ startMs: Date.now() });
+    const kRows = fitted.fits.map((fit, position) => {
       const period = describePeriod({ index: fit.periodIndex, kind: settings.periodKind });
       const unit = units[fit.unit]!;
       return [
-        crypto.randomUUID(),
+        makeId(position),
         unit.observerId,
         unit.instrumentId,
         period.start,

@@ -19,7 +19,7 @@ import type { ObservationInput } from "@/lib/validation/observation";
 import { FIELD_LABELS, IMPORT_FIELDS } from "./columns";
 import { INLINE_FLAG_LIMIT, flagImportBatch, startImportFlagJob } from "./flag-import";
 import { makeRowConverter, type RowProblem } from "./convert-row";
-import { makeImportIdMaker } from "./import-ids";
+import { makeOrderedIdMaker } from "@/lib/ids/ordered-ids";
 import { NumberedCsvParser, type NumberedRecords } from "./numbered-csv";
 import { DELIMITERS, DELIMITER_NAMES, inspectFileHead } from "./sniff";
 
@@ -90,7 +90,7 @@ export async function importLogbook({
     });
   }
   const convert = makeRowConverter({ options, instruments, now });
-  const makeImportId = makeImportIdMaker({ startMs: Date.now() });
+  const makeImportId = makeOrderedIdMaker({ startMs: Date.now() });
   const widest = Math.max(...IMPORT_FIELDS.map((f) => options[f] ?? 0));
 
   const problems: RowProblem[] = [];

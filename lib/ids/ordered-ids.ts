@@ -1,14 +1,15 @@
 import { randomFillSync } from "node:crypto";
 
 /**
- * Ids for imported observations: standard version-7 UUIDs (RFC 9562 §5.7),
+ * Ids for rows written in bulk (imported observations, the k coefficients of
+ * a recompute): standard version-7 UUIDs (RFC 9562 §5.7),
  * a 48-bit Unix-millisecond timestamp followed by random bits, so a 36-character
  * TEXT id like every other. A random (version-4) id lands anywhere in the primary
  * key's index; 100,000 of them in one transaction touch nearly every page of it.
- * Time-ordered ids of one import all go to its right-hand end instead.
+ * Time-ordered ids of one batch all go to its right-hand end instead.
  *
  * The 26 bits after the version (the "rand_a" field and the top of "rand_b") hold
- * the line number as the counter of RFC 9562 §6.2 method 1, so the ids of one
+ * the row's number in its batch (an import's line number) as the counter of RFC 9562 §6.2 method 1, so the ids of one
  * import sort in file order and never repeat within it; the last 48 bits are
  * random. A line past the counter's range moves on to the next millisecond.
  */
@@ -17,8 +18,8 @@ const LINE_COUNTER_SPAN = 2 ** LINE_COUNTER_BITS;
 const RANDOM_BYTES = 6;
 const POOL_IDS = 4096;
 
-/** A maker of ids for one import, all stamped with its start time. */
-export function makeImportIdMaker({ startMs }: { startMs: number }) {
+/** A maker of ids for one batch, all stamped with its start time. */
+export function makeOrderedIdMaker({ startMs }: { startMs: number }) {
   const pool = Buffer.alloc(RANDOM_BYTES * POOL_IDS);
   // Random hex for the next few thousand ids at once: one native call per
   // pool rather than one per id (an import makes 100,000 of them).
@@ -27,7 +28,7 @@ export function makeImportIdMaker({ startMs }: { startMs: number }) {
   let prefixMs = Number.NaN;
   let prefix = "";
 
-  return function makeImportId(line: number): string {
+  return function makeOrderedId(line: number): string {
     if (!Number.isInteger(line) || line < 0) throw new RangeError(`No id for line ${line}.`);
     if (next === POOL_IDS) {
       randomHex = randomFillSync(pool).toString("hex");

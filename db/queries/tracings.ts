@@ -172,10 +172,9 @@ export class RevisionConflict extends Error {
   }
 }
 
-/** The rows of observation_groups for a tracing's measured groups (also used by the demo seed). */
-export function toGroupRows({ observationId, groups }: { observationId: string; groups: MeasuredGroup[] }) {
-  return groups.map((g) => ({
-    observationId,
+/** What is stored of one measured group (its observation_groups row without the observation). */
+export function toGroupFields(g: MeasuredGroup) {
+  return {
     number: g.number,
     spots: g.spotCount,
     zurichClass: g.zurichClass,
@@ -185,7 +184,12 @@ export function toGroupRows({ observationId, groups }: { observationId: string; 
     carringtonLonDeg: g.carringtonLonDeg,
     hemisphere: g.hemisphere,
     areaMsh: g.areaMsh,
-  }));
+  };
+}
+
+/** The rows of observation_groups for a tracing's measured groups (also used by the demo seed). */
+export function toGroupRows({ observationId, groups }: { observationId: string; groups: MeasuredGroup[] }) {
+  return groups.map((g) => ({ observationId, ...toGroupFields(g) }));
 }
 
 /**

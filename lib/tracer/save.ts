@@ -1,6 +1,12 @@
 import "server-only";
 
-import { findOwnTracing, RevisionConflict, saveTracing, type ObservationCounts } from "@/db/queries/tracings";
+import {
+  findOwnTracing,
+  RevisionConflict,
+  saveTracing,
+  toGroupFields,
+  type ObservationCounts,
+} from "@/db/queries/tracings";
 import { assertSessionCountChangeable } from "@/lib/classrooms/session-edit";
 import { AppError, issuesFromZod } from "@/lib/http/errors";
 import { solarOrientation } from "@/lib/solar/ephemeris";
@@ -144,17 +150,7 @@ export async function saveObservationTracing({
       counts,
       tracingCounts: fromTracing,
       differsFromTracing: !sameCounts(counts, fromTracing),
-      groups: measurement.groups.map((g) => ({
-        number: g.number,
-        spots: g.spotCount,
-        zurichClass: g.zurichClass,
-        mcintoshClass: g.mcintoshClass,
-        latitudeDeg: g.latitudeDeg,
-        cmdDeg: g.cmdDeg,
-        carringtonLonDeg: g.carringtonLonDeg,
-        hemisphere: g.hemisphere,
-        areaMsh: g.areaMsh,
-      })),
+      groups: measurement.groups.map(toGroupFields),
     };
   } catch (error) {
     if (error instanceof RevisionConflict) {

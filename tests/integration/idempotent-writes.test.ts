@@ -30,7 +30,7 @@ import { createEmptyTracing } from "@/lib/validation/tracing";
 
 import { startUploadsHost, type UploadsHost } from "../../uploads-fake/server";
 import { LOCAL_API_KEY, LOCAL_APP_ID } from "../../uploads-fake/token";
-import { apiRequest, makeUser } from "./support";
+import { apiRequest, insertInstrument, insertObservation, makeUser } from "./support";
 
 type Made = Awaited<ReturnType<typeof makeUser>>;
 let observer: Made;
@@ -65,30 +65,6 @@ async function countRows(table: typeof instruments | typeof observations | typeo
   return row?.n ?? 0;
 }
 
-async function insertObservation(day: string) {
-  const [row] = await getDb()
-    .insert(observations)
-    .values({
-      observerId: observer.observer!.id,
-      instrumentId: observer.instrument!.id,
-      observedAt: new Date(`${day}T10:00:00Z`),
-      utDate: day,
-      seeing: 2,
-      groups: 0,
-      spots: 0,
-    })
-    .returning();
-  return row!.id;
-}
-
-async function insertInstrument(name: string) {
-  const [row] = await getDb()
-    .insert(instruments)
-    .values({ observerId: observer.observer!.id, name, kind: "pinhole" })
-    .returning();
-  return row!.id;
-}
-
 beforeAll(async () => {
   dataDir = await mkdtemp(path.join(tmpdir(), "heliotally-idempotent-"));
   store = await startUploadsHost({
@@ -115,7 +91,7 @@ afterAll(async () => {
 
 describe("Idempotency-Key on deletes", () => {
   it("DELETE /api/v1/instruments/[id]: the retry gets 204 again, without a key it is 404", async () => {
-    const id = await insertInstrument("Spare pinhole");
+    const id = await insertInstrument({ owner: observer, name: "Spare pinhole" });
     const call = (key?: string) =>
       send(deleteInstrument, {
         url: `/api/v1/instruments/${id}`,
@@ -134,8 +110,8 @@ describe("Idempotency-Key on deletes", () => {
   });
 
   it("DELETE /api/v1/observations/[id]: the retry gets 204 again and deletes nothing else", async () => {
-    const id = await insertObservation("2026-02-01");
-    const keep = await insertObservation("2026-02-02");
+    const id = await insertObservation({ owner: observer, day: "2026-02-01" });
+    const keep = await insertObservation({ owner: observer, day: "2026-02-02" });
     const call = () =>
       send(deleteObservation, {
         url: `/api/v1/observations/${id}`,
@@ -155,7 +131,7 @@ describe("Idempotency-Key on deletes", () => {
   });
 
   it("DELETE /api/v1/photos/[id]: the retry gets 204 again", async () => {
-    const observationId = await insertObservation("2026-02-03");
+    const observationId = await insertObservation({ owner: observer, day: "2026-02-03" });
     const [photo] = await getDb()
       .insert(photos)
       .values({
@@ -186,7 +162,7 @@ describe("Idempotency-Key on deletes", () => {
 
 describe("Idempotency-Key on archiving", () => {
   it("a replayed archive answers the first body and does not archive again", async () => {
-    const id = await insertInstrument("Old pinhole");
+    const id = await insertInstrument({ owner: observer, name: "Old pinhole" });
     const url = `/api/v1/instruments/${id}/archive`;
     const archive = () =>
       send(archiveInstrument, { url, method: "POST", userId: observer.user.id, id, key: "archive-0001" });
@@ -213,7 +189,7 @@ describe("Idempotency-Key on archiving", () => {
 
 describe("Idempotency-Key on the tracing save", () => {
   it("a retried save gets its first answer, not a stale-revision 409, and stores one revision", async () => {
-    const id = await insertObservation("2026-02-04");
+    const id = await insertObservation({ owner: observer, day: "2026-02-04" });
     const body = {
       document: {
         ...createEmptyTracing(),

@@ -15,7 +15,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db/client";
 import { insertApiToken } from "@/db/queries/api-tokens";
 import { createJob, getJob } from "@/db/queries/jobs";
-import { classroomSessions, instruments, observations, photos } from "@/db/schema";
+import { classroomSessions, photos } from "@/db/schema";
 import { API_ROUTES, type ApiRoute } from "@/lib/api/routes";
 import { generateApiToken } from "@/lib/auth/api-token";
 import type { Role } from "@/lib/auth/roles";
@@ -25,7 +25,7 @@ import { startMailSink } from "@/lib/mail/sink";
 import { startUploadsHost, type UploadsHost } from "../../uploads-fake/server";
 import { LOCAL_API_KEY, LOCAL_APP_ID } from "../../uploads-fake/token";
 import { listApiRouteFiles, resolveRouteFile } from "./api-route-files";
-import { enrolStudent, makeUser, sessionCookie } from "./support";
+import { enrolStudent, insertInstrument, insertObservation, makeUser, sessionCookie } from "./support";
 
 type Made = Awaited<ReturnType<typeof makeUser>>;
 type Handler = (request: Request, context: { params: Promise<Record<string, string>> }) => Promise<Response>;
@@ -51,30 +51,6 @@ async function mintToken(userId: string, scope: "read" | "read-submit") {
   const minted = generateApiToken();
   await insertApiToken({ userId, name: scope, scope, prefix: minted.prefix, tokenHash: minted.tokenHash });
   return minted.token;
-}
-
-async function insertObservation(observer: Made, day: string) {
-  const [row] = await getDb()
-    .insert(observations)
-    .values({
-      observerId: observer.observer!.id,
-      instrumentId: observer.instrument!.id,
-      observedAt: new Date(`${day}T10:00:00Z`),
-      utDate: day,
-      seeing: 2,
-      groups: 1,
-      spots: 3,
-    })
-    .returning();
-  return row!.id;
-}
-
-async function insertInstrument(observer: Made, name: string) {
-  const [row] = await getDb()
-    .insert(instruments)
-    .values({ observerId: observer.observer!.id, name, kind: "pinhole" })
-    .returning();
-  return row!.id;
 }
 
 async function insertPhoto(observer: Made, observationId: string, key: string) {
@@ -197,7 +173,7 @@ beforeAll(async () => {
       instrumentKind: "pinhole",
     })
     .returning();
-  const observationId = await insertObservation(observer, "2026-03-10");
+  const observationId = await insertObservation({ owner: observer, day: "2026-03-10", groups: 1, spots: 3 });
   const job = await createJob({ kind: "example", requestedByUserId: coordinator.user.id });
 
   placeholders = {
@@ -210,12 +186,34 @@ beforeAll(async () => {
     "<session id>": session!.id,
   };
   perOperation = {
-    saveTracing: { "<observation id>": await insertObservation(observer, "2026-03-11") },
-    deleteObservation: { "<observation id>": await insertObservation(observer, "2026-03-12") },
-    reviseInstrument: { "<instrument id>": await insertInstrument(observer, "Spare pinhole") },
-    deleteInstrument: { "<instrument id>": await insertInstrument(observer, "Unused pinhole") },
-    archiveInstrument: { "<instrument id>": await insertInstrument(observer, "Old pinhole") },
-    importLogbook: { "<instrument id>": await insertInstrument(observer, "Imported pinhole") },
+    saveTracing: {
+      "<observation id>": await insertObservation({
+        owner: observer,
+        day: "2026-03-11",
+        groups: 1,
+        spots: 3,
+      }),
+    },
+    deleteObservation: {
+      "<observation id>": await insertObservation({
+        owner: observer,
+        day: "2026-03-12",
+        groups: 1,
+        spots: 3,
+      }),
+    },
+    reviseInstrument: {
+      "<instrument id>": await insertInstrument({ owner: observer, name: "Spare pinhole" }),
+    },
+    deleteInstrument: {
+      "<instrument id>": await insertInstrument({ owner: observer, name: "Unused pinhole" }),
+    },
+    archiveInstrument: {
+      "<instrument id>": await insertInstrument({ owner: observer, name: "Old pinhole" }),
+    },
+    importLogbook: {
+      "<instrument id>": await insertInstrument({ owner: observer, name: "Imported pinhole" }),
+    },
     deletePhoto: { "<photo id>": await insertPhoto(observer, observationId, "example-photo-2") },
   };
   perOperation.restoreInstrument = perOperation.archiveInstrument!;

@@ -2,7 +2,7 @@ import { encode } from "next-auth/jwt";
 import { NextRequest } from "next/server";
 
 import { getDb } from "@/db/client";
-import { classroomMembers, classrooms, instruments, observers, users } from "@/db/schema";
+import { classroomMembers, classrooms, instruments, observations, observers, users } from "@/db/schema";
 import type { Role } from "@/lib/auth/roles";
 
 let counter = 0;
@@ -83,4 +83,42 @@ export async function apiRequest(
     if (!h.has("content-type")) h.set("content-type", "application/json");
   }
   return new NextRequest(new URL(url, "http://localhost:3999"), { method, headers: h, body: payload });
+}
+
+type Made = Awaited<ReturnType<typeof makeUser>>;
+
+/** Stores a count for `owner` straight in the database (10:00 UT on `day`), bypassing the routes. */
+export async function insertObservation({
+  owner,
+  day,
+  groups = 0,
+  spots = 0,
+}: {
+  owner: Made;
+  day: string;
+  groups?: number;
+  spots?: number;
+}): Promise<string> {
+  const [row] = await getDb()
+    .insert(observations)
+    .values({
+      observerId: owner.observer!.id,
+      instrumentId: owner.instrument!.id,
+      observedAt: new Date(`${day}T10:00:00Z`),
+      utDate: day,
+      seeing: 2,
+      groups,
+      spots,
+    })
+    .returning();
+  return row!.id;
+}
+
+/** Stores another pinhole instrument for `owner`, bypassing the routes. */
+export async function insertInstrument({ owner, name }: { owner: Made; name: string }): Promise<string> {
+  const [row] = await getDb()
+    .insert(instruments)
+    .values({ observerId: owner.observer!.id, name, kind: "pinhole" })
+    .returning();
+  return row!.id;
 }

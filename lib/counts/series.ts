@@ -56,9 +56,12 @@ function countDaysInMonth(year: number, month: number): number {
   return month === 4 || month === 6 || month === 9 || month === 11 ? 30 : 31;
 }
 
-// Proleptic Gregorian day count by whole 400-year eras (H. Hinnant's
-// "days_from_civil"), exact for any year and free of time-zone surprises.
-function countDaysFromCivil(year: number, month: number, dayOfMonth: number): number {
+/**
+ * Days since 1970-01-01 for a proleptic Gregorian date, by whole 400-year
+ * eras (H. Hinnant's "days_from_civil"): exact for any year and free of
+ * time-zone surprises. No range checks: callers validate.
+ */
+export function countDaysFromCivil(year: number, month: number, dayOfMonth: number): number {
   const y = month <= 2 ? year - 1 : year;
   const era = Math.floor(y / 400);
   const yearOfEra = y - era * 400;

@@ -5,6 +5,8 @@
  * is one contiguous slice.
  */
 
+import { countDaysFromCivil } from "@/lib/counts/series";
+
 /** Stands for "this observation gave no north/south split". */
 export const NO_SPLIT = -1;
 
@@ -128,13 +130,7 @@ function readPackedDay(packed: string, at: number): number {
   const dayOfMonth = digitAt(packed, at + 8) * 10 + digitAt(packed, at + 9);
   if (month < 1 || month > 12 || dayOfMonth < 1 || dayOfMonth > 31)
     throw new RangeError(`Expected a real calendar day at position ${at}`);
-  // Days from the civil date by whole 400-year eras (the same rule as toDayNumber).
-  const y = month <= 2 ? year - 1 : year;
-  const era = Math.floor(y / 400);
-  const yearOfEra = y - era * 400;
-  const dayOfYear = Math.floor((153 * (month + (month > 2 ? -3 : 9)) + 2) / 5) + dayOfMonth - 1;
-  const dayOfEra = yearOfEra * 365 + Math.floor(yearOfEra / 4) - Math.floor(yearOfEra / 100) + dayOfYear;
-  return era * 146097 + dayOfEra - 719468;
+  return countDaysFromCivil(year, month, dayOfMonth);
 }
 
 function digitAt(text: string, at: number): number {

@@ -4,9 +4,6 @@
  * gets the first status and body again (marked idempotent-replayed) and
  * changes nothing a second time.
  */
-import { mkdtemp, rm } from "node:fs/promises";
-import { tmpdir } from "node:os";
-import path from "node:path";
 
 import { count, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -25,18 +22,15 @@ import { getDb } from "@/db/client";
 import { getJob } from "@/db/queries/jobs";
 import { getKSettings } from "@/db/queries/k";
 import { instruments, jobs, observations, photos, tracings } from "@/db/schema";
-import { resetEnvCache } from "@/lib/env";
 import { createEmptyTracing } from "@/lib/validation/tracing";
 
-import { startUploadsHost, type UploadsHost } from "../../uploads-fake/server";
-import { LOCAL_API_KEY, LOCAL_APP_ID } from "../../uploads-fake/token";
+import { startPhotoStore } from "./photo-store-support";
 import { apiRequest, insertInstrument, insertObservation, makeUser } from "./support";
 
 type Made = Awaited<ReturnType<typeof makeUser>>;
 let observer: Made;
 let coordinator: Made;
-let dataDir: string;
-let store: UploadsHost;
+let photoStore: Awaited<ReturnType<typeof startPhotoStore>>;
 
 const params = (id: string) => ({ params: Promise.resolve({ id }) });
 const keyed = (key: string) => ({ "idempotency-key": key });
@@ -66,27 +60,13 @@ async function countRows(table: typeof instruments | typeof observations | typeo
 }
 
 beforeAll(async () => {
-  dataDir = await mkdtemp(path.join(tmpdir(), "heliotally-idempotent-"));
-  store = await startUploadsHost({
-    port: 0,
-    dataDir,
-    apiKey: LOCAL_API_KEY,
-    appId: LOCAL_APP_ID,
-    quiet: true,
-  });
-  const storePort = new URL(store.url).port;
-  process.env.UPLOADTHING_INGEST_URL = `http://localhost:${storePort}`;
-  process.env.UPLOADTHING_API_URL = `http://localhost:${storePort}`;
-  process.env.UPLOADTHING_UFS_HOST = `localhost:${storePort}`;
-  process.env.UPLOADTHING_UFS_APP_ID_LOCATION = "path";
-  resetEnvCache();
+  photoStore = await startPhotoStore({ name: "idempotent" });
   observer = await makeUser({ role: "observer" });
   coordinator = await makeUser({ role: "coordinator" });
 });
 
 afterAll(async () => {
-  await store.close();
-  await rm(dataDir, { recursive: true, force: true });
+  await photoStore.stop();
 });
 
 describe("Idempotency-Key on deletes", () => {

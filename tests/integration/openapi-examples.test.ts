@@ -5,8 +5,6 @@
  * cannot show an example that fails, a scope that is wrong, or an answer
  * shape the route does not give.
  */
-import { mkdtemp, rm } from "node:fs/promises";
-import { tmpdir } from "node:os";
 import path from "node:path";
 
 import { NextRequest } from "next/server";
@@ -22,9 +20,8 @@ import type { Role } from "@/lib/auth/roles";
 import { resetEnvCache } from "@/lib/env";
 import { startMailSink } from "@/lib/mail/sink";
 
-import { startUploadsHost, type UploadsHost } from "../../uploads-fake/server";
-import { LOCAL_API_KEY, LOCAL_APP_ID } from "../../uploads-fake/token";
 import { listApiRouteFiles, resolveRouteFile } from "./api-route-files";
+import { startPhotoStore } from "./photo-store-support";
 import { enrolStudent, insertInstrument, insertObservation, makeUser, sessionCookie } from "./support";
 
 type Made = Awaited<ReturnType<typeof makeUser>>;
@@ -34,8 +31,7 @@ type Handler = (request: Request, context: { params: Promise<Record<string, stri
 const TINY_PNG =
   "data:image/png;base64,iVBORw0KGgoAAAANSUhEUgAAAAEAAAABCAAAAAA6fptVAAAACklEQVR4nGNgAAAAAgABSK+kcQAAAABJRU5ErkJggg==";
 
-let dataDir: string;
-let store: UploadsHost;
+let photoStore: Awaited<ReturnType<typeof startPhotoStore>>;
 let sink: Awaited<ReturnType<typeof startMailSink>>;
 const people = {} as Record<Role, Made>;
 const tokens = {} as Record<string, { read: string; submit: string }>;
@@ -131,21 +127,9 @@ const typeMatches = (contentType: string | null, documented: string[]) =>
   documented.some((t) => (contentType ?? "").split(";")[0]!.trim() === t);
 
 beforeAll(async () => {
-  dataDir = await mkdtemp(path.join(tmpdir(), "heliotally-examples-"));
-  store = await startUploadsHost({
-    port: 0,
-    dataDir,
-    apiKey: LOCAL_API_KEY,
-    appId: LOCAL_APP_ID,
-    quiet: true,
-  });
-  const storePort = new URL(store.url).port;
+  photoStore = await startPhotoStore({ name: "examples" });
   sink = await startMailSink({ port: 0 });
   process.env.SMTP_PORT = String(sink.port);
-  process.env.UPLOADTHING_INGEST_URL = `http://localhost:${storePort}`;
-  process.env.UPLOADTHING_API_URL = `http://localhost:${storePort}`;
-  process.env.UPLOADTHING_UFS_HOST = `localhost:${storePort}`;
-  process.env.UPLOADTHING_UFS_APP_ID_LOCATION = "path";
   resetEnvCache();
 
   // One at a time: the helper numbers users from a shared counter.
@@ -231,8 +215,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await sink.close();
-  await store.close();
-  await rm(dataDir, { recursive: true, force: true });
+  await photoStore.stop();
 });
 
 describe("every documented example", () => {

@@ -5,6 +5,7 @@ import { makeOrderedIdMaker } from "@/lib/ids/ordered-ids";
 import {
   appendPackedUnit,
   createAcceptedCounts,
+  reserveCounts,
   sliceByKey,
   sortCountsByDay,
   type AcceptedCounts,
@@ -38,13 +39,17 @@ import {
 
 export const RECOMPUTE_JOB_KIND = "series-recompute";
 
+/** Instruments read per batch by the recompute (about 3,000 counts each in a large archive). */
+const READ_BATCH_INSTRUMENTS = 40;
+
 export type Units = { units: KUnit[]; observerOfUnit: Int32Array; labelOf: (unit: number) => string };
 
 /**
  * Every accepted count, in day order, as typed arrays. The database packs
  * each instrument's counts into one string (see appendPackedUnit for why),
  * straight from the covering index of accepted counts by instrument; units
- * are instruments, each belonging to one observer.
+ * are instruments, each belonging to one observer. Every accepted count
+ * belongs to one of the instruments read first (the foreign key sees to it).
  */
 export async function loadAcceptedCounts(): Promise<{ counts: AcceptedCounts } & Units> {
   const client = getDb().$client;
@@ -67,22 +72,38 @@ export async function loadAcceptedCounts(): Promise<{ counts: AcceptedCounts } &
     observerOfUnitList.push(observerIndex.get(observerId)!);
   }
 
-  const packed = await client.execute(`
-    SELECT instrument_id AS instrumentId, count(*) AS n,
-           group_concat(ut_date || ' ' || (10 * groups + spots) ||
-             CASE WHEN north_groups IS NULL OR north_spots IS NULL OR south_groups IS NULL OR south_spots IS NULL THEN ''
-                  ELSE ' ' || (10 * north_groups + north_spots) || ' ' || (10 * south_groups + south_spots) END, ',') AS packed
-    FROM observations ${await acceptedInstrumentIndexHint()}
-    WHERE status = 'accepted'
-    GROUP BY instrument_id`);
-  let total = 0;
-  for (const row of packed.rows) total += Number(row.n);
-  const byUnit = createAcceptedCounts(total);
-  for (const row of packed.rows) {
-    const unit = unitOfInstrument.get(String(row.instrumentId));
-    if (unit === undefined)
-      throw new Error(`Accepted counts name an unknown instrument ${String(row.instrumentId)}`);
-    appendPackedUnit({ counts: byUnit, unit, packed: String(row.packed) });
+  // A few dozen instruments at a time, each batch an index seek per
+  // instrument, giving the server's other requests a turn in between; one
+  // read transaction keeps every batch on the same snapshot.
+  const hint = await acceptedInstrumentIndexHint();
+  const instrumentIds = units.map((u) => u.instrumentId).sort();
+  const byUnit = createAcceptedCounts(0);
+  const reader = await client.transaction("read");
+  try {
+    for (let start = 0; start < instrumentIds.length; start += READ_BATCH_INSTRUMENTS) {
+      const batch = instrumentIds.slice(start, start + READ_BATCH_INSTRUMENTS);
+      const packed = await reader.execute({
+        sql: `SELECT instrument_id AS instrumentId, count(*) AS n,
+                group_concat(ut_date || ' ' || (10 * groups + spots) ||
+                  CASE WHEN north_groups IS NULL OR north_spots IS NULL OR south_groups IS NULL OR south_spots IS NULL THEN ''
+                       ELSE ' ' || (10 * north_groups + north_spots) || ' ' || (10 * south_groups + south_spots) END, ',') AS packed
+              FROM observations ${hint}
+              WHERE status = 'accepted' AND instrument_id IN (${batch.map(() => "?").join(", ")})
+              GROUP BY instrument_id
+              ORDER BY instrument_id`,
+        args: batch,
+      });
+      let batchTotal = 0;
+      for (const row of packed.rows) batchTotal += Number(row.n);
+      reserveCounts(byUnit, byUnit.length + batchTotal);
+      for (const row of packed.rows) {
+        const unit = unitOfInstrument.get(String(row.instrumentId))!;
+        appendPackedUnit({ counts: byUnit, unit, packed: String(row.packed) });
+      }
+      await yieldToServer();
+    }
+  } finally {
+    reader.close();
   }
   return {
     counts: sortCountsByDay(byUnit),

@@ -34,6 +34,11 @@ export function createAcceptedCounts(capacity: number): AcceptedCounts {
   };
 }
 
+/** Makes room for `needed` counts in all, so appending them reallocates nothing. */
+export function reserveCounts(counts: AcceptedCounts, needed: number): void {
+  grow(counts, needed);
+}
+
 function grow(counts: AcceptedCounts, needed: number): void {
   if (needed <= counts.dayNumber.length) return;
   const capacity = Math.max(needed, Math.ceil(counts.dayNumber.length * 1.5) + 1024);

@@ -34,7 +34,7 @@ type Snapshot = { revision: number; views: Map<string, Promise<SeriesView>>; bod
 /** Pages kept ready as JSON text per revision: every page a few dozen readers turn to between two decisions. */
 const MAX_BODIES = 500;
 
-const store = globalThis as unknown as { __heliotallySeriesSnapshot?: Snapshot };
+const store = globalThis as unknown as { __heliotallySeriesSnapshots?: WeakMap<object, Snapshot> };
 
 /**
  * The JSON body of GET /api/v1/series/<kind> for one page. The same page
@@ -117,10 +117,14 @@ function cutPage<K extends SeriesKind>({
 
 async function getSnapshot(): Promise<Snapshot> {
   const revision = await getSeriesRevision();
-  let snapshot = store.__heliotallySeriesSnapshot;
+  // Per database client: two databases opened in one process (tests, the
+  // bench) may well be at the same revision number.
+  const snapshots = (store.__heliotallySeriesSnapshots ??= new WeakMap());
+  const client = getDb().$client;
+  let snapshot = snapshots.get(client);
   if (!snapshot || snapshot.revision !== revision) {
     snapshot = { revision, views: new Map(), bodies: new Map() };
-    store.__heliotallySeriesSnapshot = snapshot;
+    snapshots.set(client, snapshot);
   }
   return snapshot;
 }

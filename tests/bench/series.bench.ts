@@ -10,7 +10,9 @@
  *  (c) an Archive table page (50 rows, sorted, filtered) through the real
  *      route handler in a node:http server on 127.0.0.1, loaded by 32
  *      concurrent clients from a worker thread, bounded in requests and time;
- *      and the first page after a write, when the series is read again.
+ *      the first page after a write, when the series is read again; and the
+ *      same loads through the production server (`next start`, built first
+ *      if the build is stale).
  * Prints one line per figure and a final JSON line.
  */
 import { mkdtempSync, rmSync } from "node:fs";
@@ -21,6 +23,7 @@ import path from "node:path";
 import { monitorEventLoopDelay, performance } from "node:perf_hooks";
 import { Worker } from "node:worker_threads";
 
+import { buildIfStale, startBuiltApp } from "../support/start-app";
 import { createRandom, drawCount } from "../unit/counts/helpers";
 
 const folder = mkdtempSync(path.join(tmpdir(), "heliotally-series-bench-"));
@@ -443,6 +446,45 @@ async function measureHttp() {
   }
   report("(c) first page after a review decision (series re-read): median", median(afterWrite));
   await server.close();
+
+  // The same loads through the whole production server (`next start` on
+  // the same database): routing, request objects and Next's own work per
+  // request come on top of the handler's.
+  if (!buildIfStale({ why: "for the series benchmark's production-server figures" }))
+    throw new Error("next build failed");
+  const app = await startBuiltApp({
+    label: "series-bench",
+    nextAuthSecret: process.env.NEXTAUTH_SECRET!,
+    databaseUrl: process.env.DATABASE_URL!,
+    demo: false,
+  });
+  try {
+    const port = Number(new URL(app.baseUrl).port);
+    await runLoad({ port, cookie, paths: [...repeated, ...warmUp], maxRequests: 2_000 });
+    for (const [name, paths] of [
+      ["20 pages repeated", repeated],
+      ["every page different", distinct],
+    ] as const) {
+      const { latencies, failed, elapsedMs } = await runLoad({ port, cookie, paths });
+      const key = `next start, ${name}`;
+      results[key] = {
+        p50: quantile(latencies, 0.5),
+        p95: quantile(latencies, 0.95),
+        p99: quantile(latencies, 0.99),
+        requests: latencies.length,
+        failed,
+        perSecond: (latencies.length / elapsedMs) * 1000,
+      };
+      report(`(c) through next start, 32 clients, ${name}: p95`, results[key].p95);
+      report(
+        `(c) requests / failed / per second, next start, ${name}`,
+        results[key].requests,
+        `/ ${failed} / ${results[key].perSecond.toFixed(0)}`,
+      );
+    }
+  } finally {
+    await app.stop();
+  }
   return results;
 }
 

@@ -25,8 +25,7 @@
  * one observation dated 2000-01-01 ("Benchmark tracing") for its tracing,
  * reusing it on later runs.
  */
-import { spawnSync } from "node:child_process";
-import { existsSync, mkdtempSync, readdirSync, statSync } from "node:fs";
+import { mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { performance } from "node:perf_hooks";
@@ -41,7 +40,7 @@ import { suggestGroups } from "../../lib/tracer/grouping";
 import { measureTracing } from "../../lib/tracer/measure";
 import { documentToSky, resolveSkyFrame, skyToDocument, type SkyFrame } from "../../lib/tracer/orientation";
 import { checkTracingDocument, createEmptyTracing, type TracingDocument } from "../../lib/validation/tracing";
-import { startBuiltApp } from "../support/start-app";
+import { buildIfStale, startBuiltApp } from "../support/start-app";
 
 const BENCH_INSTANT = new Date("2000-01-01T12:00:00Z");
 const BENCH_NOTE = "Benchmark tracing (made by tests/bench/tracer.bench.ts; safe to delete)";
@@ -188,43 +187,12 @@ function runNodePart(sun: SolarOrientation, document: TracingDocument) {
 
 // ---------------------------------------------------------------- part 2: Chromium
 
-const SOURCES = [
-  "app",
-  "components",
-  "db",
-  "lib",
-  "drizzle",
-  "public",
-  "types",
-  "next.config.mjs",
-  "tailwind.config.ts",
-  "package-lock.json",
-];
-
-function newestMtime(entry: string): number {
-  if (!existsSync(entry)) return 0;
-  const stat = statSync(entry);
-  if (!stat.isDirectory()) return stat.mtimeMs;
-  return readdirSync(entry).reduce(
-    (max, name) => Math.max(max, newestMtime(path.join(entry, name))),
-    stat.mtimeMs,
-  );
-}
-
 /** Builds if needed, then starts the app as the e2e tests do (tests/support/start-app.ts). */
 async function buildAndStartApp(): Promise<{ baseUrl: string; stop: () => Promise<void> }> {
-  const buildId = path.join(".next", "BUILD_ID");
-  const builtAt = existsSync(buildId) ? statSync(buildId).mtimeMs : 0;
-  if (builtAt < Math.max(...SOURCES.map(newestMtime))) {
-    console.log(
-      "Building the app for the browser benchmark (set BENCH_BASE_URL to use a running server instead)…",
-    );
-    const build = spawnSync("npx", ["next", "build"], {
-      stdio: "inherit",
-      env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" },
-    });
-    if (build.status !== 0) throw new Error("next build failed");
-  }
+  if (
+    !buildIfStale({ why: "for the browser benchmark (set BENCH_BASE_URL to use a running server instead)" })
+  )
+    throw new Error("next build failed");
   return startBuiltApp({ label: "bench", nextAuthSecret: "bench-secret-bench-secret-bench-secret" });
 }
 

@@ -2,11 +2,11 @@
  * Starts the built app the way `npm start` does (prepare and seed the demo
  * database, start the mail sink and local photo store, then `next start`) on
  * free ports with a temporary database, and waits until it answers. Shared by
- * tests/e2e/global-setup.ts and the browser benchmarks, so both run the app
- * the same way. It does not build: callers check or make .next first.
+ * tests/e2e/global-setup.ts and the benchmarks, so all run the app the same
+ * way. It does not build: callers make .next first with buildIfStale.
  */
-import { spawn } from "node:child_process";
-import { mkdtempSync } from "node:fs";
+import { spawn, spawnSync } from "node:child_process";
+import { existsSync, mkdtempSync, readdirSync, statSync } from "node:fs";
 import { createServer } from "node:net";
 import { tmpdir } from "node:os";
 import path from "node:path";
@@ -26,18 +26,66 @@ async function findFreePort(): Promise<number> {
   });
 }
 
-/** `label` names the temporary folder and database file (e.g. "e2e" → heliotally-e2e-…/e2e.db). */
+/** What the production build is made from: a change to any of these makes .next stale. */
+const SOURCES = [
+  "app",
+  "components",
+  "db",
+  "lib",
+  "drizzle",
+  "public",
+  "types",
+  "next.config.mjs",
+  "tailwind.config.ts",
+  "package-lock.json",
+];
+
+function newestMtime(entry: string): number {
+  if (!existsSync(entry)) return 0;
+  const stat = statSync(entry);
+  if (!stat.isDirectory()) return stat.mtimeMs;
+  return readdirSync(entry).reduce(
+    (max, name) => Math.max(max, newestMtime(path.join(entry, name))),
+    stat.mtimeMs,
+  );
+}
+
+/**
+ * Runs `next build` when .next/BUILD_ID is missing or older than any source,
+ * saying why first. Returns false when the build fails.
+ */
+export function buildIfStale({ why }: { why: string }): boolean {
+  const buildId = path.join(".next", "BUILD_ID");
+  const builtAt = existsSync(buildId) ? statSync(buildId).mtimeMs : 0;
+  if (builtAt >= Math.max(...SOURCES.map(newestMtime))) return true;
+  console.log(`Building the app ${why}…`);
+  const build = spawnSync("npx", ["next", "build"], {
+    stdio: "inherit",
+    env: { ...process.env, NEXT_TELEMETRY_DISABLED: "1" },
+  });
+  return build.status === 0;
+}
+
+/**
+ * `label` names the temporary folder and database file (e.g. "e2e" →
+ * heliotally-e2e-…/e2e.db). Pass `databaseUrl` to serve an existing
+ * database instead; `demo: false` leaves an empty one unseeded.
+ */
 export async function startBuiltApp({
   label,
   nextAuthSecret,
+  databaseUrl: givenDatabaseUrl,
+  demo = true,
 }: {
   label: string;
   nextAuthSecret: string;
+  databaseUrl?: string;
+  demo?: boolean;
 }): Promise<StartedApp> {
   const folder = mkdtempSync(path.join(tmpdir(), `heliotally-${label}-`));
   const [port, smtpPort, uploadsPort] = await Promise.all([findFreePort(), findFreePort(), findFreePort()]);
   const baseUrl = `http://localhost:${port}`;
-  const databaseUrl = `file:${path.join(folder, `${label}.db`)}`;
+  const databaseUrl = givenDatabaseUrl ?? `file:${path.join(folder, `${label}.db`)}`;
   const tsx = path.join(process.cwd(), "node_modules", "tsx", "dist", "cli.mjs");
   const child = spawn(process.execPath, [tsx, "--conditions=react-server", "scripts/serve.ts", "start"], {
     env: {
@@ -50,7 +98,7 @@ export async function startBuiltApp({
       DATABASE_URL: databaseUrl,
       NEXTAUTH_URL: baseUrl,
       NEXTAUTH_SECRET: nextAuthSecret,
-      HELIOTALLY_DEMO: "true",
+      HELIOTALLY_DEMO: demo ? "true" : "false",
     },
     stdio: ["ignore", "pipe", "pipe"],
   });

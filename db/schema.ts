@@ -11,6 +11,7 @@ import {
 } from "drizzle-orm/sqlite-core";
 
 import { ROLES, type Role } from "../lib/auth/roles";
+import { PACKED_COUNT_SQL } from "../lib/series/packed-count";
 
 const id = () =>
   text("id")
@@ -208,20 +209,11 @@ export const observations = sqliteTable(
         t.southSpots,
       )
       .where(sql`status = 'accepted'`),
-    // The same columns instrument by instrument: the full recompute reads
-    // each instrument's accepted counts as one packed string, with no join
-    // and no sort (measured in tests/bench/series.bench.ts).
-    index("observations_accepted_instrument_idx")
-      .on(
-        t.instrumentId,
-        t.utDate,
-        t.groups,
-        t.spots,
-        t.northGroups,
-        t.northSpots,
-        t.southGroups,
-        t.southSpots,
-      )
+    // Each accepted count packed into one integer, instrument by instrument:
+    // the full recompute reads every instrument's counts as one string of
+    // these, straight from this index (lib/series/packed-count.ts).
+    index("observations_accepted_packed_idx")
+      .on(t.instrumentId, sql.raw(PACKED_COUNT_SQL))
       .where(sql`status = 'accepted'`),
   ],
 );

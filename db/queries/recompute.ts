@@ -3,12 +3,10 @@ import "server-only";
 import { formatDayNumber } from "@/lib/counts/series";
 import { makeOrderedIdMaker } from "@/lib/ids/ordered-ids";
 import {
-  appendPackedUnit,
-  createAcceptedCounts,
-  reserveCounts,
+  countsFromPackedUnits,
   sliceByKey,
-  sortCountsByDay,
   type AcceptedCounts,
+  type PackedUnit,
 } from "@/lib/series/accepted-counts";
 import {
   buildKLookup,
@@ -20,6 +18,7 @@ import {
 } from "@/lib/series/k-fit";
 import { computeNetworkSeries } from "@/lib/series/network-series";
 import { describePeriod, findPeriodIndex } from "@/lib/series/periods";
+import { PACKED_COUNT_SQL, PACKED_WIDTH } from "@/lib/series/packed-count";
 import { NETWORK_REFERENCE, type KSettings } from "@/lib/validation/k-settings";
 
 import { getDb } from "../client";
@@ -28,7 +27,7 @@ import { flagAwaitingReview } from "./review-flags";
 import { getKSettings, K_REFERENCE } from "./k";
 import { getReferenceSeries, loadReferenceValues } from "./reference-series";
 import {
-  acceptedInstrumentIndexHint,
+  acceptedPackedIndexHint,
   bumpSeriesRevisionStatement,
   DAILY_COLUMNS,
   dailyValues,
@@ -42,12 +41,31 @@ export const RECOMPUTE_JOB_KIND = "series-recompute";
 /** Instruments read per batch by the recompute (about 3,000 counts each in a large archive). */
 const READ_BATCH_INSTRUMENTS = 40;
 
+/**
+ * One row for a batch of instruments: their ids, their numbers of accepted
+ * counts, and all their packed counts in one string, in the same order.
+ * One big string per batch rather than one per instrument: strings of a few
+ * dozen kilobytes are made in V8's young generation and copied by every
+ * collection until they are promoted, which cost more than reading them.
+ */
+export function packedBatchSql({ hint, instruments }: { hint: string; instruments: number }): string {
+  return `SELECT group_concat(instrumentId, ',') AS ids, group_concat(n, ',') AS counts,
+                 group_concat(packed, '') AS packed
+          FROM (SELECT instrument_id AS instrumentId, count(*) AS n,
+                       group_concat(${PACKED_COUNT_SQL}, '') AS packed
+                FROM observations ${hint}
+                WHERE status = 'accepted' AND instrument_id IN (${Array.from({ length: instruments }, () => "?").join(", ")})
+                GROUP BY instrument_id
+                ORDER BY instrument_id)`;
+}
+
 export type Units = { units: KUnit[]; observerOfUnit: Int32Array; labelOf: (unit: number) => string };
 
 /**
  * Every accepted count, in day order, as typed arrays. The database packs
- * each instrument's counts into one string (see appendPackedUnit for why),
- * straight from the covering index of accepted counts by instrument; units
+ * each instrument's counts into one string (see countsFromPackedUnits for why),
+ * reading each count as one integer kept in an index
+ * (lib/series/packed-count.ts), never touching the table; units
  * are instruments, each belonging to one observer. Every accepted count
  * belongs to one of the instruments read first (the foreign key sees to it).
  */
@@ -75,30 +93,30 @@ export async function loadAcceptedCounts(): Promise<{ counts: AcceptedCounts } &
   // A few dozen instruments at a time, each batch an index seek per
   // instrument, giving the server's other requests a turn in between; one
   // read transaction keeps every batch on the same snapshot.
-  const hint = await acceptedInstrumentIndexHint();
+  const hint = await acceptedPackedIndexHint();
   const instrumentIds = units.map((u) => u.instrumentId).sort();
-  const byUnit = createAcceptedCounts(0);
+  const packedUnits: PackedUnit[] = [];
   const reader = await client.transaction("read");
   try {
     for (let start = 0; start < instrumentIds.length; start += READ_BATCH_INSTRUMENTS) {
       const batch = instrumentIds.slice(start, start + READ_BATCH_INSTRUMENTS);
-      const packed = await reader.execute({
-        sql: `SELECT instrument_id AS instrumentId, count(*) AS n,
-                group_concat(ut_date || ' ' || (10 * groups + spots) ||
-                  CASE WHEN north_groups IS NULL OR north_spots IS NULL OR south_groups IS NULL OR south_spots IS NULL THEN ''
-                       ELSE ' ' || (10 * north_groups + north_spots) || ' ' || (10 * south_groups + south_spots) END, ',') AS packed
-              FROM observations ${hint}
-              WHERE status = 'accepted' AND instrument_id IN (${batch.map(() => "?").join(", ")})
-              GROUP BY instrument_id
-              ORDER BY instrument_id`,
+      const result = await reader.execute({
+        sql: packedBatchSql({ hint, instruments: batch.length }),
         args: batch,
       });
-      let batchTotal = 0;
-      for (const row of packed.rows) batchTotal += Number(row.n);
-      reserveCounts(byUnit, byUnit.length + batchTotal);
-      for (const row of packed.rows) {
-        const unit = unitOfInstrument.get(String(row.instrumentId))!;
-        appendPackedUnit({ counts: byUnit, unit, packed: String(row.packed) });
+      const row = result.rows[0];
+      if (row?.ids != null) {
+        const packed = String(row.packed ?? "");
+        const ids = String(row.ids).split(",");
+        const counts = String(row.counts).split(",").map(Number);
+        let from = 0;
+        ids.forEach((instrumentId, i) => {
+          const count = counts[i]!;
+          packedUnits.push({ unit: unitOfInstrument.get(instrumentId)!, packed, from, count });
+          from += count * PACKED_WIDTH;
+        });
+        if (from !== packed.length)
+          throw new RangeError(`Read ${packed.length} packed characters for ${from / PACKED_WIDTH} counts`);
       }
       await yieldToServer();
     }
@@ -106,7 +124,7 @@ export async function loadAcceptedCounts(): Promise<{ counts: AcceptedCounts } &
     reader.close();
   }
   return {
-    counts: sortCountsByDay(byUnit),
+    counts: countsFromPackedUnits(packedUnits),
     units,
     observerOfUnit: Int32Array.from(observerOfUnitList),
     labelOf: (unit) => labels[unit] ?? `unit ${unit}`,

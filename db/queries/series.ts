@@ -70,8 +70,8 @@ async function indexHint(name: string): Promise<string> {
 
 /** Accepted counts in day order: refreshing one day is a single range seek. */
 export const acceptedDayIndexHint = () => indexHint("observations_accepted_day_idx");
-/** Accepted counts instrument by instrument: the full recompute's read. */
-export const acceptedInstrumentIndexHint = () => indexHint("observations_accepted_instrument_idx");
+/** Accepted counts instrument by instrument, each packed into one integer: the full recompute's read. */
+export const acceptedPackedIndexHint = () => indexHint("observations_accepted_packed_idx");
 
 const REVISION_KEY = "series.revision";
 

@@ -5,7 +5,7 @@
  * is one contiguous slice.
  */
 
-import { countDaysFromCivil } from "@/lib/counts/series";
+import { PACKED_DAY_OFFSET, PACKED_WIDTH } from "./packed-count";
 
 /** Stands for "this observation gave no north/south split". */
 export const NO_SPLIT = -1;
@@ -32,11 +32,6 @@ export function createAcceptedCounts(capacity: number): AcceptedCounts {
     northRaw: new Int32Array(capacity),
     southRaw: new Int32Array(capacity),
   };
-}
-
-/** Makes room for `needed` counts in all, so appending them reallocates nothing. */
-export function reserveCounts(counts: AcceptedCounts, needed: number): void {
-  grow(counts, needed);
 }
 
 function grow(counts: AcceptedCounts, needed: number): void {
@@ -67,117 +62,93 @@ export function appendCount(
 }
 
 /**
- * Reads one unit's counts packed as text by the database ("YYYY-MM-DD raw"
- * or "YYYY-MM-DD raw north south", entries separated by commas) and appends
- * them in the order given, which need not be day order: call
- * {@link sortCountsByDay} once every unit is in. The database packs each
- * unit's rows into one string because handing a million separate rows to
- * JavaScript costs far more than reading them (measured in
- * tests/bench/series.bench.ts); grouping by unit needs no join.
+ * One unit's counts as the database packs them (lib/series/packed-count.ts):
+ * `count` fixed-width values, concatenated with no separator, starting at
+ * character `from` of `packed`. Several units may share one string.
  */
-export function appendPackedUnit({
-  counts,
-  unit,
-  packed,
-}: {
-  counts: AcceptedCounts;
+export type PackedUnit = {
   unit: number;
   packed: string;
-}): void {
-  const length = packed.length;
-  let p = 0;
-  while (p < length) {
-    const day = readPackedDay(packed, p);
-    p += 10;
-    let fieldCount = 0;
-    let raw = 0;
-    let north = NO_SPLIT;
-    let south = NO_SPLIT;
-    while (p < length && packed.charCodeAt(p) === 32) {
-      p++;
-      let value = 0;
-      const start = p;
-      for (; p < length; p++) {
-        const digit = packed.charCodeAt(p) - 48;
-        if (digit < 0 || digit > 9) break;
-        value = value * 10 + digit;
-      }
-      if (p === start) throw new RangeError(`Malformed packed count near position ${start}`);
-      if (fieldCount === 0) raw = value;
-      else if (fieldCount === 1) north = value;
-      else if (fieldCount === 2) south = value;
-      fieldCount++;
-    }
-    if (fieldCount !== 1 && fieldCount !== 3)
-      throw new RangeError(`Malformed packed count near position ${p}`);
-    if (p < length) {
-      if (packed.charCodeAt(p) !== 44) throw new RangeError(`Unexpected character at position ${p}`);
-      p++;
-    }
-    grow(counts, counts.length + 1);
-    const i = counts.length;
-    counts.dayNumber[i] = day;
-    counts.unit[i] = unit;
-    counts.raw[i] = raw;
-    counts.northRaw[i] = north;
-    counts.southRaw[i] = south;
-    counts.length = i + 1;
-  }
-}
-
-/** "YYYY-MM-DD" at `at` as a day number (days since 1970-01-01), without slicing the string. */
-function readPackedDay(packed: string, at: number): number {
-  if (packed.charCodeAt(at + 4) !== 45 || packed.charCodeAt(at + 7) !== 45)
-    throw new RangeError(`Expected a day as YYYY-MM-DD at position ${at}`);
-  let year = 0;
-  for (let i = at; i < at + 4; i++) year = year * 10 + digitAt(packed, i);
-  const month = digitAt(packed, at + 5) * 10 + digitAt(packed, at + 6);
-  const dayOfMonth = digitAt(packed, at + 8) * 10 + digitAt(packed, at + 9);
-  if (month < 1 || month > 12 || dayOfMonth < 1 || dayOfMonth > 31)
-    throw new RangeError(`Expected a real calendar day at position ${at}`);
-  return countDaysFromCivil(year, month, dayOfMonth);
-}
-
-function digitAt(text: string, at: number): number {
-  const digit = text.charCodeAt(at) - 48;
-  if (digit < 0 || digit > 9) throw new RangeError(`Expected a digit at position ${at}`);
-  return digit;
-}
+  from: number;
+  count: number;
+};
 
 /**
- * The same counts in day order (a stable counting sort: within a day, the
- * order they were appended in). Linear in the number of counts plus the
- * span of days, which a million counts over decades keeps small.
+ * Every unit's packed counts as one set of arrays in day order (within a
+ * day, in the order the units are given). A unit running past the end of
+ * its string, or a character other than a digit, is refused; the caller
+ * checks that the units cover each string exactly, so a row that could not
+ * be packed is never silently lost. The database packs each unit's rows into one string because
+ * handing a million separate rows to JavaScript costs far more than reading
+ * them (measured in tests/bench/series.bench.ts).
+ *
+ * Two passes over the text, no intermediate copy: the first reads every
+ * day and counts the rows per day, the second puts each row straight into
+ * its place (a counting sort, linear in the rows plus the span of days).
  */
-export function sortCountsByDay(counts: AcceptedCounts): AcceptedCounts {
-  const n = counts.length;
-  const sorted = createAcceptedCounts(n);
-  sorted.length = n;
-  if (n === 0) return sorted;
+export function countsFromPackedUnits(units: readonly PackedUnit[]): AcceptedCounts {
+  let total = 0;
+  for (const { packed, from, count } of units) {
+    if (!(from >= 0 && count >= 0 && from + count * PACKED_WIDTH <= packed.length)) {
+      throw new RangeError(
+        `Expected ${count} packed counts (${count * PACKED_WIDTH} digits) from character ${from} of ${packed.length}`,
+      );
+    }
+    total += count;
+  }
+  const counts = createAcceptedCounts(total);
+  counts.length = total;
+  if (total === 0) return counts;
+
+  const days = new Int32Array(total);
   let first = Number.POSITIVE_INFINITY;
   let last = Number.NEGATIVE_INFINITY;
-  for (let i = 0; i < n; i++) {
-    const day = counts.dayNumber[i] as number;
-    if (day < first) first = day;
-    if (day > last) last = day;
+  let row = 0;
+  for (const { packed, from, count } of units) {
+    const end = from + count * PACKED_WIDTH;
+    for (let p = from; p < end; p += PACKED_WIDTH) {
+      const day = readDigits(packed, p, 6) - PACKED_DAY_OFFSET;
+      days[row++] = day;
+      if (day < first) first = day;
+      if (day > last) last = day;
+    }
   }
-  const start = new Int32Array(last - first + 2);
-  for (let i = 0; i < n; i++) {
-    const slot = (counts.dayNumber[i] as number) - first + 1;
-    start[slot] = (start[slot] as number) + 1;
+  // next[d]: where the next row of day first + d goes.
+  const next = new Int32Array(last - first + 2);
+  for (let i = 0; i < total; i++) {
+    const slot = (days[i] as number) - first + 1;
+    next[slot] = (next[slot] as number) + 1;
   }
-  for (let d = 1; d < start.length; d++) start[d] = (start[d] as number) + (start[d - 1] as number);
-  for (let i = 0; i < n; i++) {
-    const slot = (counts.dayNumber[i] as number) - first;
-    const at = start[slot] as number;
-    start[slot] = at + 1;
-    sorted.dayNumber[at] = counts.dayNumber[i] as number;
-    sorted.unit[at] = counts.unit[i] as number;
-    sorted.raw[at] = counts.raw[i] as number;
-    sorted.northRaw[at] = counts.northRaw[i] as number;
-    sorted.southRaw[at] = counts.southRaw[i] as number;
+  for (let d = 1; d < next.length; d++) next[d] = (next[d] as number) + (next[d - 1] as number);
+
+  row = 0;
+  for (const { unit, packed, from, count } of units) {
+    const end = from + count * PACKED_WIDTH;
+    for (let p = from; p < end; p += PACKED_WIDTH) {
+      const day = days[row++] as number;
+      const slot = day - first;
+      const at = next[slot] as number;
+      next[slot] = at + 1;
+      counts.dayNumber[at] = day;
+      counts.unit[at] = unit;
+      counts.raw[at] = readDigits(packed, p + 6, 4);
+      // 0 stands for "no split", so minus one gives NO_SPLIT.
+      counts.northRaw[at] = readDigits(packed, p + 10, 4) - 1;
+      counts.southRaw[at] = readDigits(packed, p + 14, 4) - 1;
+    }
   }
-  return sorted;
+  return counts;
+}
+
+/** The decimal number written by `width` digits at `at`. */
+function readDigits(text: string, at: number, width: number): number {
+  let value = 0;
+  for (let p = at; p < at + width; p++) {
+    const digit = text.charCodeAt(p) - 48;
+    if (digit >>> 0 > 9) throw new RangeError(`Expected a digit at position ${p}`);
+    value = value * 10 + digit;
+  }
+  return value;
 }
 
 /** Contiguous slices [from, to) of rows sharing a key (day, period...), in row order. */

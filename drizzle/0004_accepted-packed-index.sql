@@ -1,0 +1,2 @@
+DROP INDEX `observations_accepted_instrument_idx`;--> statement-breakpoint
+CREATE INDEX `observations_accepted_packed_idx` ON `observations` (`instrument_id`,((CAST(julianday(ut_date) - 2440587.5 AS INTEGER) + 300000) * 1000000000000 + (10 * groups + spots) * 100000000 + CASE WHEN north_groups IS NULL OR north_spots IS NULL OR south_groups IS NULL OR south_spots IS NULL THEN 0 ELSE (10 * north_groups + north_spots + 1) * 10000 + 10 * south_groups + south_spots + 1 END)) WHERE status = 'accepted';

@@ -49,6 +49,15 @@ const envSchema = z.object({
   UPLOADS_FAKE_PORT: z.coerce.number().int().min(1).max(65535).default(3100),
   /** Where that local storage host keeps its files. */
   UPLOADS_FAKE_DATA_DIR: z.string().min(1).default("data/uploads"),
+  /**
+   * `npm start` only: "true" puts the front server on PORT (it answers the
+   * published-series pages and passes everything else to Next behind it);
+   * "false" serves Next on PORT directly.
+   */
+  HELIOTALLY_FRONT: z
+    .enum(["true", "false"])
+    .default("true")
+    .transform((v) => v === "true"),
   /** "true" starts the local mail sink and lists captured mail on the admin pages. */
   MAIL_SINK: z
     .enum(["true", "false"])

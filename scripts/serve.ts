@@ -9,6 +9,8 @@ import path from "node:path";
 
 import { getEnv, getUploadthingEnv } from "@/lib/env";
 import { startMailSink } from "@/lib/mail/sink";
+import { startFrontServer } from "@/lib/server/front-server";
+import { findFreePort } from "@/lib/server/free-port";
 
 import { startUploadsHost } from "../uploads-fake/server";
 import { parseToken } from "../uploads-fake/token";
@@ -68,14 +70,38 @@ if (uploadthing.local) {
   }
 }
 
+// In production a small front server takes the public port: it answers the
+// published-series pages itself and passes everything else to Next on a
+// loopback port (lib/server/front-server.ts says why). HELIOTALLY_FRONT=false
+// serves Next on the public port directly, as `npm run dev` always does.
+const withFront = mode === "start" && env.HELIOTALLY_FRONT;
+const nextPort = withFront ? await findFreePort() : env.PORT;
 const require = createRequire(import.meta.url);
 const nextBin = require.resolve("next/dist/bin/next");
-const child = spawn(process.execPath, [nextBin, mode, "--port", String(env.PORT)], {
-  stdio: "inherit",
-  env: process.env,
-});
+const child = spawn(
+  process.execPath,
+  [nextBin, mode, "--port", String(nextPort), ...(withFront ? ["--hostname", "127.0.0.1"] : [])],
+  { stdio: "inherit", env: process.env },
+);
+if (withFront) {
+  const { GET: seriesPage } = await import("@/app/api/v1/series/[kind]/route");
+  const front = await startFrontServer({
+    port: env.PORT,
+    upstream: { host: "127.0.0.1", port: nextPort },
+    fastRoutes: [
+      {
+        pattern: /^\/api\/v1\/series\/(?<kind>(?:daily|monthly|yearly)(?:\.csv)?)$/,
+        handler: (request, { params }) =>
+          seriesPage(request, { params: params as Promise<{ kind: string }> }),
+      },
+    ],
+    log: console.warn,
+  });
+  services.push({ name: "front server", close: front.close });
+}
 console.log(
-  `Heliotally (${mode}) starting on http://localhost:${env.PORT} — prepared in ${Date.now() - started} ms.`,
+  `Heliotally (${mode}) starting on http://localhost:${env.PORT} — prepared in ${Date.now() - started} ms.` +
+    (withFront ? ` Next listens behind it on 127.0.0.1:${nextPort}.` : ""),
 );
 
 let stopping = false;

@@ -11,8 +11,8 @@
  *      route handler in a node:http server on 127.0.0.1, loaded by 32
  *      concurrent clients from a worker thread, bounded in requests and time;
  *      the first page after a write, when the series is read again; and the
- *      same loads through the production server (`next start`, built first
- *      if the build is stale).
+ *      same loads through the production server (`npm start`: its front
+ *      server, then Next alone; built first if the build is stale).
  * Prints one line per figure and a final JSON line.
  */
 import { mkdtempSync, rmSync } from "node:fs";
@@ -447,43 +447,51 @@ async function measureHttp() {
   report("(c) first page after a review decision (series re-read): median", median(afterWrite));
   await server.close();
 
-  // The same loads through the whole production server (`next start` on
-  // the same database): routing, request objects and Next's own work per
-  // request come on top of the handler's.
+  // The same loads through the whole production server (`npm start` on the
+  // same database): its front server answers these pages with the same
+  // handler and passes everything else to Next behind it. Then Next alone on
+  // the public port (HELIOTALLY_FRONT=false), where Next's routing, request
+  // objects and response streaming come on top of the handler's work.
   if (!buildIfStale({ why: "for the series benchmark's production-server figures" }))
     throw new Error("next build failed");
-  const app = await startBuiltApp({
-    label: "series-bench",
-    nextAuthSecret: process.env.NEXTAUTH_SECRET!,
-    databaseUrl: process.env.DATABASE_URL!,
-    demo: false,
-  });
-  try {
-    const port = Number(new URL(app.baseUrl).port);
-    await runLoad({ port, cookie, paths: [...repeated, ...warmUp], maxRequests: 2_000 });
-    for (const [name, paths] of [
-      ["20 pages repeated", repeated],
-      ["every page different", distinct],
-    ] as const) {
-      const { latencies, failed, elapsedMs } = await runLoad({ port, cookie, paths });
-      const key = `next start, ${name}`;
-      results[key] = {
-        p50: quantile(latencies, 0.5),
-        p95: quantile(latencies, 0.95),
-        p99: quantile(latencies, 0.99),
-        requests: latencies.length,
-        failed,
-        perSecond: (latencies.length / elapsedMs) * 1000,
-      };
-      report(`(c) through next start, 32 clients, ${name}: p95`, results[key].p95);
-      report(
-        `(c) requests / failed / per second, next start, ${name}`,
-        results[key].requests,
-        `/ ${failed} / ${results[key].perSecond.toFixed(0)}`,
-      );
+  for (const [server, front] of [
+    ["npm start", true],
+    ["Next alone", false],
+  ] as const) {
+    const app = await startBuiltApp({
+      label: "series-bench",
+      nextAuthSecret: process.env.NEXTAUTH_SECRET!,
+      databaseUrl: process.env.DATABASE_URL!,
+      demo: false,
+      front,
+    });
+    try {
+      const port = Number(new URL(app.baseUrl).port);
+      await runLoad({ port, cookie, paths: [...repeated, ...warmUp], maxRequests: 2_000 });
+      for (const [name, paths] of [
+        ["20 pages repeated", repeated],
+        ["every page different", distinct],
+      ] as const) {
+        const { latencies, failed, elapsedMs } = await runLoad({ port, cookie, paths });
+        const key = `${server}, ${name}`;
+        results[key] = {
+          p50: quantile(latencies, 0.5),
+          p95: quantile(latencies, 0.95),
+          p99: quantile(latencies, 0.99),
+          requests: latencies.length,
+          failed,
+          perSecond: (latencies.length / elapsedMs) * 1000,
+        };
+        report(`(c) through ${server}, 32 clients, ${name}: p95`, results[key].p95);
+        report(
+          `(c) requests / failed / per second, ${server}, ${name}`,
+          results[key].requests,
+          `/ ${failed} / ${results[key].perSecond.toFixed(0)}`,
+        );
+      }
+    } finally {
+      await app.stop();
     }
-  } finally {
-    await app.stop();
   }
   return results;
 }

@@ -7,24 +7,14 @@
  */
 import { spawn, spawnSync } from "node:child_process";
 import { existsSync, mkdtempSync, readdirSync, statSync } from "node:fs";
-import { createServer } from "node:net";
 import { tmpdir } from "node:os";
 import path from "node:path";
+
+import { findFreePort } from "../../lib/server/free-port";
 
 export type StartedApp = { baseUrl: string; databaseUrl: string; stop: () => Promise<void> };
 
 const START_TIMEOUT_MS = 120_000;
-
-async function findFreePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const server = createServer();
-    server.once("error", reject);
-    server.listen(0, "127.0.0.1", () => {
-      const address = server.address();
-      server.close(() => resolve(typeof address === "object" && address ? address.port : 0));
-    });
-  });
-}
 
 /** What the production build is made from: a change to any of these makes .next stale. */
 const SOURCES = [
@@ -76,11 +66,14 @@ export async function startBuiltApp({
   nextAuthSecret,
   databaseUrl: givenDatabaseUrl,
   demo = true,
+  front = true,
 }: {
   label: string;
   nextAuthSecret: string;
   databaseUrl?: string;
   demo?: boolean;
+  /** false: Next on the public port, without the front server (lib/server/front-server.ts). */
+  front?: boolean;
 }): Promise<StartedApp> {
   const folder = mkdtempSync(path.join(tmpdir(), `heliotally-${label}-`));
   const [port, smtpPort, uploadsPort] = await Promise.all([findFreePort(), findFreePort(), findFreePort()]);
@@ -99,6 +92,7 @@ export async function startBuiltApp({
       NEXTAUTH_URL: baseUrl,
       NEXTAUTH_SECRET: nextAuthSecret,
       HELIOTALLY_DEMO: demo ? "true" : "false",
+      HELIOTALLY_FRONT: front ? "true" : "false",
     },
     stdio: ["ignore", "pipe", "pipe"],
   });

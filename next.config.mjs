@@ -6,7 +6,7 @@ const nextConfig = {
   // step of `npm test`; checking again inside every build only costs time.
   typescript: { ignoreBuildErrors: true },
   // Packages with native or Node-only internals stay out of the server bundle.
-  serverExternalPackages: ["@libsql/client", "nodemailer", "smtp-server", "mailparser", "bcryptjs"],
+  serverExternalPackages: ["@libsql/client", "libsql", "nodemailer", "smtp-server", "mailparser", "bcryptjs"],
   experimental: {
     // Enables forbidden() and app/forbidden.tsx for signed-in users without the role.
     authInterrupts: true,

@@ -17,7 +17,7 @@ import {
 } from "@/lib/series/network-series";
 import { describeMonthDays, formatMonth } from "@/lib/series/periods";
 
-import { getDb } from "../client";
+import { getDb, lookupFirstRow } from "../client";
 
 // ---------------------------------------------------------------------------
 // Shared SQL
@@ -85,12 +85,10 @@ export function bumpSeriesRevisionStatement(): InStatement {
   };
 }
 
+/** Read on every Archive page request (db/queries/series-cache.ts). */
 export async function getSeriesRevision(): Promise<number> {
-  const result = await getDb().$client.execute({
-    sql: "SELECT value FROM settings WHERE key = ?",
-    args: [REVISION_KEY],
-  });
-  const value = result.rows[0]?.value;
+  const row = await lookupFirstRow(getDb(), "SELECT value FROM settings WHERE key = ?", [REVISION_KEY]);
+  const value = row?.[0];
   return value === undefined || value === null ? 0 : Number(value);
 }
 

@@ -4,7 +4,7 @@ import { asc, eq, sql } from "drizzle-orm";
 
 import type { Role } from "@/lib/auth/roles";
 
-import { getDb } from "../client";
+import { getDb, lookupFirstRow } from "../client";
 import { observers, users } from "../schema";
 
 export async function getUserById({ userId }: { userId: string }) {
@@ -12,34 +12,31 @@ export async function getUserById({ userId }: { userId: string }) {
   return row ?? null;
 }
 
-const identityQueries = new WeakMap<object, ReturnType<typeof prepareIdentityQuery>>();
-
-function prepareIdentityQuery(db: ReturnType<typeof getDb>) {
-  return db
-    .select({
-      id: users.id,
-      name: users.name,
-      email: users.email,
-      role: users.role,
-      disabledAt: users.disabledAt,
-    })
-    .from(users)
-    .where(eq(users.id, sql.placeholder("userId")))
-    .limit(1)
-    .prepare();
-}
-
 /**
- * What the guard needs to know of a signed-in user, on every request: a
- * prepared query of five columns (building the query anew each time cost
- * more than running it).
+ * What the guard needs to know of a signed-in user, on every request: one
+ * prepared lookup of five columns (db/client.ts lookupFirstRow).
  */
-export async function getSessionIdentity({ userId }: { userId: string }) {
-  const db = getDb();
-  let query = identityQueries.get(db);
-  if (!query) identityQueries.set(db, (query = prepareIdentityQuery(db)));
-  const [row] = await query.all({ userId });
-  return row ?? null;
+export async function getSessionIdentity({ userId }: { userId: string }): Promise<{
+  id: string;
+  name: string | null;
+  email: string | null;
+  role: Role;
+  disabledAt: Date | null;
+} | null> {
+  const row = await lookupFirstRow(
+    getDb(),
+    "SELECT id, name, email, role, disabled_at FROM users WHERE id = ? LIMIT 1",
+    [userId],
+  );
+  if (!row) return null;
+  const [id, name, email, role, disabledAt] = row;
+  return {
+    id: String(id),
+    name: name === null ? null : String(name),
+    email: email === null ? null : String(email),
+    role: role as Role,
+    disabledAt: disabledAt === null ? null : new Date(Number(disabledAt)),
+  };
 }
 
 export async function getUserByEmail({ email }: { email: string }) {

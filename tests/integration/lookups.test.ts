@@ -14,8 +14,7 @@ import { makeUser } from "./support";
 describe("lookupFirstRow", () => {
   it("answers as the client does: one row as an array, numbers as numbers, nothing as undefined", async () => {
     const db = getDb();
-    const sql =
-      "SELECT ?1 AS text, 42 AS whole, 2.5 AS fraction, NULL AS empty, 9007199254740991 AS largest";
+    const sql = "SELECT ?1 AS text, 42 AS whole, 2.5 AS fraction, NULL AS empty, 9007199254740991 AS largest";
     const viaLookup = await lookupFirstRow(db, sql, ["x"]);
     const viaClient = (await db.$client.execute({ sql, args: ["x"] })).rows[0]!;
     expect(viaLookup).toEqual(["x", 42, 2.5, null, Number.MAX_SAFE_INTEGER]);

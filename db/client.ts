@@ -77,6 +77,11 @@ function attachLookups({ client, file }: { client: Client; file: string }): void
   };
 }
 
+/** The file of an embedded database this process may open directly, or null (a server, a replica, memory). */
+export function embeddedFileOf(db: Database): string | null {
+  return lookups.get(db.$client)?.file ?? null;
+}
+
 /**
  * The first row of a read-only query, as an array of column values (integers
  * as numbers), or undefined when there is none. For the few lookups on every

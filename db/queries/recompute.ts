@@ -21,6 +21,7 @@ import { describePeriod, findPeriodIndex } from "@/lib/series/periods";
 import { PACKED_COUNT_SQL, PACKED_WIDTH } from "@/lib/series/packed-count";
 import { NETWORK_REFERENCE, type KSettings } from "@/lib/validation/k-settings";
 
+import { writeAllOrNothing } from "../bulk-write";
 import { getDb } from "../client";
 import { createJob, findActiveJob, finishJob, markJobRunning, reportJobProgress, type JobView } from "./jobs";
 import { flagAwaitingReview } from "./review-flags";
@@ -31,7 +32,6 @@ import {
   bumpSeriesRevisionStatement,
   DAILY_COLUMNS,
   dailyValues,
-  insertRows,
   refreshSeriesForDays,
   watchDirtyDays,
 } from "./series";
@@ -233,39 +233,33 @@ export async function runFullRecompute({
         fitted.referenceLabel(fit.role),
       ];
     });
-    const tx = await getDb().$client.transaction("write");
-    try {
-      if (refitK) {
-        await tx.execute("DELETE FROM k_coefficients");
-        await insertRows({
-          tx,
-          table: "k_coefficients",
-          columns: [
-            "id",
-            "observer_id",
-            "instrument_id",
-            "period_start",
-            "period_end",
-            "k",
-            "sigma",
-            "common_days",
-            "method",
-            "period_kind",
-            "reference",
-          ],
-          rows: kRows,
-        });
-      }
-      await tx.execute("DELETE FROM series_daily");
-      await insertRows({
-        tx,
-        table: "series_daily",
-        columns: DAILY_COLUMNS,
-        rows: series.daily.map(dailyValues),
-      });
-      await tx.execute("DELETE FROM series_monthly");
-      await insertRows({
-        tx,
+    await writeAllOrNothing(getDb(), [
+      ...(refitK
+        ? [
+            { sql: "DELETE FROM k_coefficients" },
+            {
+              table: "k_coefficients",
+              columns: [
+                "id",
+                "observer_id",
+                "instrument_id",
+                "period_start",
+                "period_end",
+                "k",
+                "sigma",
+                "common_days",
+                "method",
+                "period_kind",
+                "reference",
+              ],
+              rows: kRows,
+            },
+          ]
+        : []),
+      { sql: "DELETE FROM series_daily" },
+      { table: "series_daily", columns: DAILY_COLUMNS, rows: series.daily.map(dailyValues) },
+      { sql: "DELETE FROM series_monthly" },
+      {
         table: "series_monthly",
         columns: ["month", "hemisphere", "days", "sum_of_daily_means", "mean", "smoothed"],
         rows: series.monthly.map((m) => [
@@ -276,22 +270,15 @@ export async function runFullRecompute({
           m.mean,
           m.smoothed,
         ]),
-      });
-      await tx.execute("DELETE FROM series_yearly");
-      await insertRows({
-        tx,
+      },
+      { sql: "DELETE FROM series_yearly" },
+      {
         table: "series_yearly",
         columns: ["year", "hemisphere", "days", "mean"],
         rows: series.yearly.map((y) => [y.year, y.hemisphere, y.days, y.mean]),
-      });
-      await tx.execute(bumpSeriesRevisionStatement());
-      await tx.commit();
-    } catch (error) {
-      await tx.rollback();
-      throw error;
-    } finally {
-      tx.close();
-    }
+      },
+      bumpSeriesRevisionStatement(),
+    ]);
     lap("write");
 
     const dirtyDays = dirty.stop();

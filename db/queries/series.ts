@@ -1,6 +1,6 @@
 import "server-only";
 
-import type { InStatement, Transaction } from "@libsql/client";
+import type { InValue, Transaction } from "@libsql/client";
 
 import { toDayNumber } from "@/lib/counts/series";
 import {
@@ -76,7 +76,7 @@ export const acceptedPackedIndexHint = () => indexHint("observations_accepted_pa
 const REVISION_KEY = "series.revision";
 
 /** Raised by every write to the series; caches of series pages are keyed by it. */
-export function bumpSeriesRevisionStatement(): InStatement {
+export function bumpSeriesRevisionStatement(): { sql: string; args: InValue[] } {
   return {
     // settings.updatedAt is stored in the created_at column (db/schema.ts).
     sql: `INSERT INTO settings (key, value, created_at) VALUES (?, '1', unixepoch('subsec') * 1000)
@@ -332,7 +332,7 @@ async function refreshYears({
 
 export const DAILY_COLUMNS = ["day", "hemisphere", "observers", "sum", "sum_squares", "mean", "sd"] as const;
 
-export function dailyValues(row: DailyRow): unknown[] {
+export function dailyValues(row: DailyRow): InValue[] {
   return [row.day, row.hemisphere, row.observers, row.sum, row.sumSquares, row.mean, row.sd];
 }
 

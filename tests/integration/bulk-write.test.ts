@@ -1,0 +1,83 @@
+/**
+ * writeAllOrNothing (db/bulk-write.ts): both of its paths (its own connection
+ * on an embedded database, a client transaction elsewhere) store every row
+ * or none, and refuse what the client refuses.
+ */
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+
+import { writeAllOrNothing, type WriteStep } from "@/db/bulk-write";
+import { getDb, openDatabase, type Database } from "@/db/client";
+
+const TABLE = "CREATE TABLE bulk_test (n INTEGER PRIMARY KEY, label TEXT NOT NULL, value REAL)";
+let memory: Database;
+
+beforeAll(async () => {
+  await getDb().$client.execute(TABLE);
+  memory = openDatabase({ url: "file::memory:" });
+  await memory.$client.execute(TABLE);
+});
+
+afterAll(() => memory.$client.close());
+
+const rowsOf = (count: number, from = 0) =>
+  Array.from({ length: count }, (_, i) => [from + i, `row ${from + i}`, i % 7 === 0 ? null : (from + i) / 4]);
+
+describe.each([
+  ["an embedded file (its own connection)", () => getDb()],
+  ["an in-memory database (a client transaction)", () => memory],
+])("writeAllOrNothing on %s", (_name, databaseOf) => {
+  const count = async () =>
+    Number((await databaseOf().$client.execute("SELECT count(*) AS n FROM bulk_test")).rows[0]!.n);
+
+  it("replaces a table's rows, more than one statement's worth, in one transaction", async () => {
+    const db = databaseOf();
+    // 2,000 rows: several full statements and a short last one.
+    const steps: WriteStep[] = [
+      { sql: "DELETE FROM bulk_test" },
+      { table: "bulk_test", columns: ["n", "label", "value"], rows: rowsOf(2_000) },
+      { sql: "INSERT INTO bulk_test (n, label) VALUES (?, ?)", args: [99_999, "last"] },
+    ];
+    await writeAllOrNothing(db, steps);
+    expect(await count()).toBe(2_001);
+    const sample = await db.$client.execute(
+      "SELECT n, label, value FROM bulk_test WHERE n IN (0, 1, 1999) ORDER BY n",
+    );
+    expect(sample.rows.map((r) => [r.n, r.label, r.value])).toEqual([
+      [0, "row 0", null],
+      [1, "row 1", 0.25],
+      [1999, "row 1999", 499.75],
+    ]);
+    await writeAllOrNothing(db, [
+      { sql: "DELETE FROM bulk_test" },
+      { table: "bulk_test", columns: ["n", "label", "value"], rows: rowsOf(3) },
+    ]);
+    expect(await count()).toBe(3);
+  });
+
+  it("stores nothing when any step fails, and says why", async () => {
+    const db = databaseOf();
+    const failing: Array<[string, WriteStep[]]> = [
+      ["NOT NULL", [{ table: "bulk_test", columns: ["n", "label", "value"], rows: [[10, null, 1]] }]],
+      [
+        "UNIQUE",
+        [
+          {
+            table: "bulk_test",
+            columns: ["n", "label", "value"],
+            rows: rowsOf(600, 1_000).concat([[1_000, "again", 1]]),
+          },
+        ],
+      ],
+      ["finite", [{ table: "bulk_test", columns: ["n", "label", "value"], rows: [[10, "x", Number.NaN]] }]],
+      ["no such table", [{ sql: "DELETE FROM no_such_table" }]],
+    ];
+    for (const [reason, steps] of failing) {
+      await expect(
+        writeAllOrNothing(db, [{ sql: "DELETE FROM bulk_test" }, ...steps]),
+        reason,
+      ).rejects.toThrow(new RegExp(reason, "i"));
+      // The DELETE before the failing step was rolled back too.
+      expect(await count(), reason).toBe(3);
+    }
+  });
+});

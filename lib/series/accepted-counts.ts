@@ -100,6 +100,15 @@ export function countsFromPackedUnits(units: readonly PackedUnit[]): AcceptedCou
   counts.length = total;
   if (total === 0) return counts;
 
+  // Every character a digit, checked once per string (a regular expression
+  // runs far faster than a check per character in the loops below).
+  const checkedStrings = new Set<string>();
+  for (const { packed } of units) {
+    if (checkedStrings.has(packed)) continue;
+    if (!ONLY_DIGITS.test(packed)) throw new RangeError("Packed counts must be digits only");
+    checkedStrings.add(packed);
+  }
+
   const days = new Int32Array(total);
   let first = Number.POSITIVE_INFINITY;
   let last = Number.NEGATIVE_INFINITY;
@@ -107,7 +116,7 @@ export function countsFromPackedUnits(units: readonly PackedUnit[]): AcceptedCou
   for (const { packed, from, count } of units) {
     const end = from + count * PACKED_WIDTH;
     for (let p = from; p < end; p += PACKED_WIDTH) {
-      const day = readDigits(packed, p, 6) - PACKED_DAY_OFFSET;
+      const day = digits6(packed, p) - PACKED_DAY_OFFSET;
       days[row++] = day;
       if (day < first) first = day;
       if (day > last) last = day;
@@ -131,24 +140,32 @@ export function countsFromPackedUnits(units: readonly PackedUnit[]): AcceptedCou
       next[slot] = at + 1;
       counts.dayNumber[at] = day;
       counts.unit[at] = unit;
-      counts.raw[at] = readDigits(packed, p + 6, 4);
+      counts.raw[at] = digits4(packed, p + 6);
       // 0 stands for "no split", so minus one gives NO_SPLIT.
-      counts.northRaw[at] = readDigits(packed, p + 10, 4) - 1;
-      counts.southRaw[at] = readDigits(packed, p + 14, 4) - 1;
+      counts.northRaw[at] = digits4(packed, p + 10) - 1;
+      counts.southRaw[at] = digits4(packed, p + 14) - 1;
     }
   }
   return counts;
 }
 
-/** The decimal number written by `width` digits at `at`. */
-function readDigits(text: string, at: number, width: number): number {
-  let value = 0;
-  for (let p = at; p < at + width; p++) {
-    const digit = text.charCodeAt(p) - 48;
-    if (digit >>> 0 > 9) throw new RangeError(`Expected a digit at position ${p}`);
-    value = value * 10 + digit;
-  }
-  return value;
+const ONLY_DIGITS = /^[0-9]*$/;
+const ZEROS_4 = 48 * 1111;
+
+/** The number written by the four digits at `at` (checked to be digits beforehand). */
+function digits4(text: string, at: number): number {
+  return (
+    text.charCodeAt(at) * 1000 +
+    text.charCodeAt(at + 1) * 100 +
+    text.charCodeAt(at + 2) * 10 +
+    text.charCodeAt(at + 3) -
+    ZEROS_4
+  );
+}
+
+/** The number written by the six digits at `at` (checked to be digits beforehand). */
+function digits6(text: string, at: number): number {
+  return digits4(text, at) * 100 + text.charCodeAt(at + 4) * 10 + text.charCodeAt(at + 5) - 48 * 11;
 }
 
 /** Contiguous slices [from, to) of rows sharing a key (day, period...), in row order. */

@@ -205,51 +205,45 @@ export function computeNetworkSeries({
   observerOfUnit: Int32Array;
 }): { daily: DailyRow[]; monthly: MonthlyRow[]; yearly: YearlyRow[] } {
   const daily: DailyRow[] = [];
-  // Per-observer scratch, reset through the list of observers seen each day.
+  // Per-observer accumulators in typed arrays, reset through the list of
+  // observers seen each day: a million updates of numbers in plain arrays
+  // rather than of objects' fields, and no garbage.
   const observerCount = observerOfUnit.reduce((max, o) => Math.max(max, o + 1), 0);
-  const slotOfObserver = new Int32Array(observerCount).fill(-1);
-  const seen: number[] = [];
-  // Entries are reused from day to day: a million short-lived objects would
-  // cost more in garbage collection than the arithmetic.
-  const entries: Array<{ total: number; n: number; north: number; south: number; nSplit: number }> = [];
+  const total = new Float64Array(observerCount);
+  const north = new Float64Array(observerCount);
+  const south = new Float64Array(observerCount);
+  const n = new Int32Array(observerCount);
+  const nSplit = new Int32Array(observerCount);
+  const seen = new Int32Array(observerCount);
+  // Reused from day to day, one per observer of the busiest day.
   const dayValues: ObserverDayValue[] = [];
 
   for (const { key: dayNumber, from, to } of sliceByKey({ counts, keyOf: (d) => d })) {
-    seen.length = 0;
+    let seenCount = 0;
     for (let i = from; i < to; i++) {
       const observer = observerOfUnit[counts.unit[i] as number] as number;
-      let slot = slotOfObserver[observer] as number;
-      if (slot < 0) {
-        slot = seen.length;
-        slotOfObserver[observer] = slot;
-        seen.push(observer);
-        const reused = entries[slot];
-        if (reused) {
-          reused.total = reused.n = reused.north = reused.south = reused.nSplit = 0;
-        } else {
-          entries.push({ total: 0, n: 0, north: 0, south: 0, nSplit: 0 });
-        }
-      }
-      const entry = entries[slot]!;
+      if (n[observer] === 0) seen[seenCount++] = observer;
       const k = kOfRow[i] as number;
-      entry.total += k * (counts.raw[i] as number);
-      entry.n += 1;
-      const north = counts.northRaw[i] as number;
-      const south = counts.southRaw[i] as number;
-      if (north !== NO_SPLIT && south !== NO_SPLIT) {
-        entry.north += k * north;
-        entry.south += k * south;
-        entry.nSplit += 1;
+      total[observer] = (total[observer] as number) + k * (counts.raw[i] as number);
+      n[observer] = (n[observer] as number) + 1;
+      const northRaw = counts.northRaw[i] as number;
+      const southRaw = counts.southRaw[i] as number;
+      if (northRaw !== NO_SPLIT && southRaw !== NO_SPLIT) {
+        north[observer] = (north[observer] as number) + k * northRaw;
+        south[observer] = (south[observer] as number) + k * southRaw;
+        nSplit[observer] = (nSplit[observer] as number) + 1;
       }
     }
-    for (const observer of seen) slotOfObserver[observer] = -1;
-    dayValues.length = seen.length;
-    for (let slot = 0; slot < seen.length; slot++) {
-      const e = entries[slot]!;
+    dayValues.length = seenCount;
+    for (let slot = 0; slot < seenCount; slot++) {
+      const observer = seen[slot] as number;
       const value = (dayValues[slot] ??= { total: 0, north: null, south: null });
-      value.total = e.total / e.n;
-      value.north = e.nSplit > 0 ? e.north / e.nSplit : null;
-      value.south = e.nSplit > 0 ? e.south / e.nSplit : null;
+      const splits = nSplit[observer] as number;
+      value.total = (total[observer] as number) / (n[observer] as number);
+      value.north = splits > 0 ? (north[observer] as number) / splits : null;
+      value.south = splits > 0 ? (south[observer] as number) / splits : null;
+      total[observer] = north[observer] = south[observer] = 0;
+      n[observer] = nSplit[observer] = 0;
     }
     for (const row of summariseDay({ day: formatDayNumber(dayNumber), values: dayValues })) daily.push(row);
   }

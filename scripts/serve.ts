@@ -76,13 +76,7 @@ if (uploadthing.local) {
 // serves Next on the public port directly, as `npm run dev` always does.
 const withFront = mode === "start" && env.HELIOTALLY_FRONT;
 const nextPort = withFront ? await findFreePort() : env.PORT;
-const require = createRequire(import.meta.url);
-const nextBin = require.resolve("next/dist/bin/next");
-const child = spawn(
-  process.execPath,
-  [nextBin, mode, "--port", String(nextPort), ...(withFront ? ["--hostname", "127.0.0.1"] : [])],
-  { stdio: "inherit", env: process.env },
-);
+// The front first: if the public port is taken, stop before Next starts.
 if (withFront) {
   const { GET: seriesPage } = await import("@/app/api/v1/series/[kind]/route");
   const front = await startFrontServer({
@@ -96,9 +90,21 @@ if (withFront) {
       },
     ],
     log: console.warn,
+  }).catch((error: unknown) => {
+    console.error(
+      `Could not listen on port ${env.PORT} (${(error as Error).message}); is another copy running?`,
+    );
+    process.exit(1);
   });
   services.push({ name: "front server", close: front.close });
 }
+const require = createRequire(import.meta.url);
+const nextBin = require.resolve("next/dist/bin/next");
+const child = spawn(
+  process.execPath,
+  [nextBin, mode, "--port", String(nextPort), ...(withFront ? ["--hostname", "127.0.0.1"] : [])],
+  { stdio: "inherit", env: process.env },
+);
 console.log(
   `Heliotally (${mode}) starting on http://localhost:${env.PORT} — prepared in ${Date.now() - started} ms.` +
     (withFront ? ` Next listens behind it on 127.0.0.1:${nextPort}.` : ""),

@@ -3,7 +3,7 @@ import "server-only";
 import type { InValue } from "@libsql/client";
 import Libsql from "libsql";
 
-import { embeddedFileOf, type Database } from "./client";
+import { embeddedFileOf, inWriteTransaction, type Database } from "./client";
 import { insertRows } from "./queries/series";
 
 export type WriteStep =
@@ -48,19 +48,12 @@ export async function writeAllOrNothing(db: Database, steps: readonly WriteStep[
 }
 
 async function writeThroughClient(db: Database, steps: readonly WriteStep[]): Promise<void> {
-  const tx = await db.$client.transaction("write");
-  try {
+  await inWriteTransaction(db, async (tx) => {
     for (const step of steps) {
       if ("sql" in step) await tx.execute({ sql: step.sql, args: step.args ?? [] });
       else await insertRows({ tx, ...step });
     }
-    await tx.commit();
-  } catch (error) {
-    await tx.rollback();
-    throw error;
-  } finally {
-    tx.close();
-  }
+  });
 }
 
 /** At most this many rows per INSERT, and at most ~8,000 values (SQLite allows 32,766). */

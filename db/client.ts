@@ -3,7 +3,7 @@ import "server-only";
 import { mkdirSync } from "node:fs";
 import path from "node:path";
 
-import { createClient, type Client, type InValue } from "@libsql/client";
+import { createClient, type Client, type InValue, type Transaction } from "@libsql/client";
 import { drizzle, type LibSQLDatabase } from "drizzle-orm/libsql";
 import Libsql from "libsql";
 
@@ -75,6 +75,21 @@ function attachLookups({ client, file }: { client: Client; file: string }): void
     own.open = null;
     close();
   };
+}
+
+/** Runs `work` in one write transaction of the client: committed if it returns, rolled back if it throws. */
+export async function inWriteTransaction<T>(db: Database, work: (tx: Transaction) => Promise<T>): Promise<T> {
+  const tx = await db.$client.transaction("write");
+  try {
+    const result = await work(tx);
+    await tx.commit();
+    return result;
+  } catch (error) {
+    await tx.rollback();
+    throw error;
+  } finally {
+    tx.close();
+  }
 }
 
 /** The file of an embedded database this process may open directly, or null (a server, a replica, memory). */

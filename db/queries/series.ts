@@ -17,7 +17,7 @@ import {
 } from "@/lib/series/network-series";
 import { describeMonthDays, formatMonth } from "@/lib/series/periods";
 
-import { getDb, lookupFirstRow } from "../client";
+import { getDb, inWriteTransaction, lookupFirstRow } from "../client";
 
 // ---------------------------------------------------------------------------
 // Shared SQL
@@ -142,8 +142,7 @@ export async function refreshSeriesForDays({ days }: { days: string[] }): Promis
   for (const day of wanted) watch.__heliotallyRecomputeWatch?.dirtyDays.add(day);
 
   const hint = await acceptedDayIndexHint();
-  const tx = await getDb().$client.transaction("write");
-  try {
+  await inWriteTransaction(getDb(), async (tx) => {
     const daily: DailyRow[] = [];
     for (let start = 0; start < wanted.length; start += CHUNK) {
       const chunk = wanted.slice(start, start + CHUNK);
@@ -186,13 +185,7 @@ export async function refreshSeriesForDays({ days }: { days: string[] }): Promis
     await refreshSmoothed({ tx, changed });
     await refreshYears({ tx, changed });
     await tx.execute(bumpSeriesRevisionStatement());
-    await tx.commit();
-  } catch (error) {
-    await tx.rollback();
-    throw error;
-  } finally {
-    tx.close();
-  }
+  });
 }
 
 const HEMISPHERE_LIST = `('all', 'N', 'S')`;

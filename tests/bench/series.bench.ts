@@ -354,6 +354,17 @@ async function runLoad({
   return result;
 }
 
+function summariseLoad({ latencies, failed, elapsedMs }: Awaited<ReturnType<typeof runLoad>>) {
+  return {
+    p50: quantile(latencies, 0.5),
+    p95: quantile(latencies, 0.95),
+    p99: quantile(latencies, 0.99),
+    requests: latencies.length,
+    failed,
+    perSecond: (latencies.length / elapsedMs) * 1000,
+  };
+}
+
 async function measureHttp() {
   const { getDb } = await import("@/db/client");
   const { encode } = await import("next-auth/jwt");
@@ -404,29 +415,18 @@ async function measureHttp() {
     maxRequests: 300,
   });
   report("(c) table page, 1 client at a time (cached): p50", quantile(alone.latencies, 0.5));
-  const results: Record<
-    string,
-    { p50: number; p95: number; p99: number; requests: number; failed: number; perSecond: number }
-  > = {};
+  const results: Record<string, ReturnType<typeof summariseLoad>> = {};
   for (const [name, paths] of [
     ["20 pages repeated", repeated],
     ["every page different (cache misses)", distinct],
   ] as const) {
-    const { latencies, failed, elapsedMs } = await runLoad({ port: server.port, cookie, paths });
-    results[name] = {
-      p50: quantile(latencies, 0.5),
-      p95: quantile(latencies, 0.95),
-      p99: quantile(latencies, 0.99),
-      requests: latencies.length,
-      failed,
-      perSecond: (latencies.length / elapsedMs) * 1000,
-    };
+    results[name] = summariseLoad(await runLoad({ port: server.port, cookie, paths }));
     report(`(c) table page, 32 clients, ${name}: p50`, results[name].p50);
     report(`(c) table page, 32 clients, ${name}: p95`, results[name].p95);
     report(
       `(c) requests / failed / per second, ${name}`,
       results[name].requests,
-      `/ ${failed} / ${results[name].perSecond.toFixed(0)}`,
+      `/ ${results[name].failed} / ${results[name].perSecond.toFixed(0)}`,
     );
   }
   // The first page after a review decision reads the series again (one
@@ -472,21 +472,13 @@ async function measureHttp() {
         ["20 pages repeated", repeated],
         ["every page different", distinct],
       ] as const) {
-        const { latencies, failed, elapsedMs } = await runLoad({ port, cookie, paths });
         const key = `${server}, ${name}`;
-        results[key] = {
-          p50: quantile(latencies, 0.5),
-          p95: quantile(latencies, 0.95),
-          p99: quantile(latencies, 0.99),
-          requests: latencies.length,
-          failed,
-          perSecond: (latencies.length / elapsedMs) * 1000,
-        };
+        results[key] = summariseLoad(await runLoad({ port, cookie, paths }));
         report(`(c) through ${server}, 32 clients, ${name}: p95`, results[key].p95);
         report(
           `(c) requests / failed / per second, ${server}, ${name}`,
           results[key].requests,
-          `/ ${failed} / ${results[key].perSecond.toFixed(0)}`,
+          `/ ${results[key].failed} / ${results[key].perSecond.toFixed(0)}`,
         );
       }
     } finally {

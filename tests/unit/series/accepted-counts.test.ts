@@ -80,6 +80,10 @@ describe("countsFromPackedUnits", () => {
       { unit: 0, packed: one.slice(0, 17), from: 0, count: 1 },
       { unit: 0, packed: `${one.slice(0, 8)}-${one.slice(9)}`, from: 0, count: 1 },
       { unit: 0, packed: `-1${one.slice(2)}`, from: 0, count: 1 },
+      // Characters just past "9" and just before "0", in each field.
+      { unit: 0, packed: `${one.slice(0, 5)}:${one.slice(6)}`, from: 0, count: 1 },
+      { unit: 0, packed: `${one.slice(0, 11)}/${one.slice(12)}`, from: 0, count: 1 },
+      { unit: 0, packed: `${one.slice(0, 17)}a`, from: 0, count: 1 },
     ])
       expect(() => countsFromPackedUnits([unit]), JSON.stringify(unit)).toThrow(RangeError);
   });

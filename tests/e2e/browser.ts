@@ -1,4 +1,4 @@
-import { mkdirSync, mkdtempSync, rmSync } from "node:fs";
+import { mkdirSync, mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 
@@ -15,8 +15,7 @@ export function chromiumPath(): string {
  * reaching out to the internet in the background.
  */
 export async function openBrowser(): Promise<BrowserContext> {
-  const profile = mkdtempSync(path.join(tmpdir(), "heliotally-chromium-"));
-  const context = await chromium.launchPersistentContext(profile, {
+  return chromium.launchPersistentContext(mkdtempSync(path.join(tmpdir(), "heliotally-chromium-")), {
     executablePath: chromiumPath(),
     headless: true,
     viewport: { width: 1280, height: 900 },
@@ -30,9 +29,6 @@ export async function openBrowser(): Promise<BrowserContext> {
       "--disable-sync",
     ],
   });
-  // The profile folder goes with the browser.
-  context.on("close", () => rmSync(profile, { recursive: true, force: true }));
-  return context;
 }
 
 export async function newPage(context: BrowserContext): Promise<Page> {

@@ -195,6 +195,8 @@ function passOn({
       incoming.on("error", () => res.destroy());
     },
   );
+  // Small writes go out at once (no Nagle delay) on the hop to Next too.
+  outgoing.on("socket", (socket) => socket.setNoDelay(true));
   outgoing.on("error", () => {
     if (res.headersSent) {
       res.destroy();

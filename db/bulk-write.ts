@@ -16,10 +16,13 @@ export type WriteStep =
  *
  * On an embedded database it opens a connection of its own and runs them
  * synchronously on statements prepared once per table: tens of thousands of
- * rows then take about a third of the time they take through the client,
+ * rows then take about half the time they take through the client,
  * which prepares every statement again and converts every value on the way
  * (measured in tests/bench/series.bench.ts). The event loop waits for the
- * whole write, a few dozen milliseconds for the full recompute's series.
+ * whole write, about a tenth of a second for the full recompute of a million
+ * counts; in return no other request of this process can take its turn
+ * while the write lock is held, which could otherwise deadlock a second
+ * writer here against it.
  * With a libSQL server or an embedded replica, the steps go through a
  * client transaction.
  */

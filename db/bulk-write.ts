@@ -19,10 +19,10 @@ export type WriteStep =
  * rows then take about half the time they take through the client,
  * which prepares every statement again and converts every value on the way
  * (measured in tests/bench/series.bench.ts). The event loop waits for the
- * whole write, about a tenth of a second for the full recompute of a million
- * counts; in return no other request of this process can take its turn
- * while the write lock is held, which could otherwise deadlock a second
- * writer here against it.
+ * whole write (the longest stall during the bench's full recompute of a
+ * million counts is about 50 ms); in return no other request of this
+ * process can take its turn while the write lock is held, which could
+ * otherwise deadlock a second writer here against it.
  * With a libSQL server or an embedded replica, the steps go through a
  * client transaction.
  */

@@ -218,6 +218,37 @@ export const observations = sqliteTable(
   ],
 );
 
+/**
+ * Each instrument's accepted counts as one binary value (lib/series/count-packs.ts),
+ * written by the full recompute and read by the next one instead of the
+ * counts themselves. Derived data: a pack is trusted only while its
+ * instrument has no row in count_pack_changes.
+ */
+export const countPacks = sqliteTable("count_packs", {
+  instrumentId: text("instrument_id").primaryKey(),
+  format: integer("format").notNull(),
+  count: integer("count").notNull(),
+  packed: blob("packed", { mode: "buffer" }).notNull(),
+  createdAt: createdAt(),
+});
+
+/**
+ * Instruments whose accepted counts changed since their pack was written,
+ * one row each, kept by triggers on `observations` (migration
+ * 0005_count-packs.sql), so no way of changing a count can forget it. Every
+ * change takes a new, larger `seq` (AUTOINCREMENT never reuses one); the
+ * recompute clears the changes up to the largest seq it read, and a change
+ * made while it ran stays for the next one.
+ */
+export const countPackChanges = sqliteTable(
+  "count_pack_changes",
+  {
+    seq: integer("seq").primaryKey({ autoIncrement: true }),
+    instrumentId: text("instrument_id").notNull(),
+  },
+  (t) => [uniqueIndex("count_pack_changes_instrument_idx").on(t.instrumentId)],
+);
+
 /** One personal reduction coefficient per observer (and optionally instrument) and period. */
 export const kCoefficients = sqliteTable(
   "k_coefficients",

@@ -2,12 +2,8 @@ import "server-only";
 
 import { formatDayNumber } from "@/lib/counts/series";
 import { makeOrderedIdMaker } from "@/lib/ids/ordered-ids";
-import {
-  countsFromPackedUnits,
-  sliceByKey,
-  type AcceptedCounts,
-  type PackedUnit,
-} from "@/lib/series/accepted-counts";
+import { countsFromPacks, sliceByKey, type AcceptedCounts } from "@/lib/series/accepted-counts";
+import { packsFromPackedText, type CountPack } from "@/lib/series/count-packs";
 import {
   buildKLookup,
   buildStoredKResolver,
@@ -18,11 +14,12 @@ import {
 } from "@/lib/series/k-fit";
 import { computeNetworkSeries } from "@/lib/series/network-series";
 import { describePeriod, findPeriodIndex } from "@/lib/series/periods";
-import { PACKED_COUNT_SQL, PACKED_WIDTH } from "@/lib/series/packed-count";
+import { PACKED_COUNT_SQL } from "@/lib/series/packed-count";
 import { NETWORK_REFERENCE, type KSettings } from "@/lib/validation/k-settings";
 
-import { writeAllOrNothing } from "../bulk-write";
+import { writeAllOrNothing, type WriteStep } from "../bulk-write";
 import { getDb } from "../client";
+import { countPackWrites, readTrustedPacks } from "./count-packs";
 import { createJob, findActiveJob, finishJob, markJobRunning, reportJobProgress, type JobView } from "./jobs";
 import { flagAwaitingReview } from "./review-flags";
 import { getKSettings, K_REFERENCE } from "./k";
@@ -62,69 +59,98 @@ export function packedBatchSql({ hint, instruments }: { hint: string; instrument
 export type Units = { units: KUnit[]; observerOfUnit: Int32Array; labelOf: (unit: number) => string };
 
 /**
- * Every accepted count, in day order, as typed arrays. The database packs
- * each instrument's counts into one string (see countsFromPackedUnits for why),
- * reading each count as one integer kept in an index
- * (lib/series/packed-count.ts), never touching the table; units
- * are instruments, each belonging to one observer. Every accepted count
- * belongs to one of the instruments read first (the foreign key sees to it).
+ * Every accepted count, in day order, as typed arrays, with the writes that
+ * keep the count packs current (to be made in the recompute's write
+ * transaction). Units are instruments, each belonging to one observer.
+ *
+ * Most instruments' counts come from their stored pack, one blob each
+ * (db/queries/count-packs.ts). Instruments whose counts changed since, or
+ * that have no readable pack, are read from the observations: each count as
+ * one integer kept in an index (lib/series/packed-count.ts), never touching
+ * the table, a few dozen instruments per row of one long string (see
+ * packedBatchSql); their packs are then written anew. One read transaction
+ * keeps the instruments, packs, changes and counts on one snapshot.
  */
-export async function loadAcceptedCounts(): Promise<{ counts: AcceptedCounts } & Units> {
+export async function loadAcceptedCounts(): Promise<
+  { counts: AcceptedCounts; packWrites: WriteStep[] } & Units
+> {
   const client = getDb().$client;
-  const instrumentRows = await client.execute(
-    `SELECT i.id AS instrumentId, i.observer_id AS observerId, i.name AS instrumentName,
-            ob.display_name AS displayName, ob.code AS code
-     FROM instruments i JOIN observers ob ON ob.id = i.observer_id ORDER BY i.rowid`,
-  );
   const units: KUnit[] = [];
   const labels: string[] = [];
   const unitOfInstrument = new Map<string, number>();
   const observerIndex = new Map<string, number>();
   const observerOfUnitList: number[] = [];
-  for (const row of instrumentRows.rows) {
-    const observerId = String(row.observerId);
-    unitOfInstrument.set(String(row.instrumentId), units.length);
-    units.push({ observerId, instrumentId: String(row.instrumentId) });
-    labels.push(`${String(row.displayName)} (${String(row.code)}, ${String(row.instrumentName)})`);
-    if (!observerIndex.has(observerId)) observerIndex.set(observerId, observerIndex.size);
-    observerOfUnitList.push(observerIndex.get(observerId)!);
-  }
-
-  // A few dozen instruments at a time, each batch an index seek per
-  // instrument, giving the server's other requests a turn in between; one
-  // read transaction keeps every batch on the same snapshot.
+  const packOfUnit: Array<CountPack | null> = [];
+  const rebuilt: Array<{ instrumentId: string; count: number; bytes: Uint8Array }> = [];
+  const dropped: string[] = [];
+  let changesUpTo: number | null = null;
   const hint = await acceptedPackedIndexHint();
-  const instrumentIds = units.map((u) => u.instrumentId).sort();
-  const packedUnits: PackedUnit[] = [];
   const reader = await client.transaction("read");
   try {
-    for (let start = 0; start < instrumentIds.length; start += READ_BATCH_INSTRUMENTS) {
-      const batch = instrumentIds.slice(start, start + READ_BATCH_INSTRUMENTS);
+    const instrumentRows = await reader.execute(
+      `SELECT i.id AS instrumentId, i.observer_id AS observerId, i.name AS instrumentName,
+              ob.display_name AS displayName, ob.code AS code
+       FROM instruments i JOIN observers ob ON ob.id = i.observer_id ORDER BY i.rowid`,
+    );
+    for (const row of instrumentRows.rows) {
+      const observerId = String(row.observerId);
+      unitOfInstrument.set(String(row.instrumentId), units.length);
+      units.push({ observerId, instrumentId: String(row.instrumentId) });
+      labels.push(`${String(row.displayName)} (${String(row.code)}, ${String(row.instrumentName)})`);
+      if (!observerIndex.has(observerId)) observerIndex.set(observerId, observerIndex.size);
+      observerOfUnitList.push(observerIndex.get(observerId)!);
+      packOfUnit.push(null);
+    }
+    const trusted = await readTrustedPacks(reader);
+    changesUpTo = trusted.changesUpTo;
+    const toRead: string[] = [];
+    for (const [instrumentId, unit] of unitOfInstrument) {
+      const pack = trusted.packs.get(instrumentId);
+      if (pack) packOfUnit[unit] = pack;
+      else toRead.push(instrumentId);
+    }
+    // Packs of instruments deleted since (they had no counts left) go.
+    for (const instrumentId of trusted.storedFor)
+      if (!unitOfInstrument.has(instrumentId)) dropped.push(instrumentId);
+
+    // A few dozen instruments at a time, each an index seek, giving the
+    // server's other requests a turn in between.
+    toRead.sort();
+    for (let start = 0; start < toRead.length; start += READ_BATCH_INSTRUMENTS) {
+      const batch = toRead.slice(start, start + READ_BATCH_INSTRUMENTS);
       const result = await reader.execute({
         sql: packedBatchSql({ hint, instruments: batch.length }),
         args: batch,
       });
       const row = result.rows[0];
+      const made = new Map<string, { pack: CountPack; bytes: Uint8Array }>();
       if (row?.ids != null) {
-        const packed = String(row.packed ?? "");
-        const ids = String(row.ids).split(",");
-        const counts = String(row.counts).split(",").map(Number);
-        let from = 0;
-        ids.forEach((instrumentId, i) => {
-          const count = counts[i]!;
-          packedUnits.push({ unit: unitOfInstrument.get(instrumentId)!, packed, from, count });
-          from += count * PACKED_WIDTH;
-        });
-        if (from !== packed.length)
-          throw new RangeError(`Read ${packed.length} packed characters for ${from / PACKED_WIDTH} counts`);
+        const packs = packsFromPackedText(
+          String(row.packed ?? ""),
+          String(row.counts).split(",").map(Number),
+        );
+        String(row.ids)
+          .split(",")
+          .forEach((instrumentId, i) => made.set(instrumentId, packs[i]!));
+      }
+      // Instruments without accepted counts get an empty pack, so they are not read again.
+      for (const instrumentId of batch) {
+        const { pack, bytes } = made.get(instrumentId) ?? { pack: null, bytes: new Uint8Array(0) };
+        packOfUnit[unitOfInstrument.get(instrumentId)!] = pack;
+        rebuilt.push({ instrumentId, count: pack?.count ?? 0, bytes });
       }
       await yieldToServer();
     }
   } finally {
     reader.close();
   }
+  const withCounts: Array<{ unit: number; pack: CountPack }> = [];
+  packOfUnit.forEach((pack, unit) => {
+    if (pack) withCounts.push({ unit, pack });
+  });
   return {
-    counts: countsFromPackedUnits(packedUnits),
+    counts: countsFromPacks(withCounts),
+    packWrites: countPackWrites({ rebuilt, dropped, changesUpTo }),
     units,
     observerOfUnit: Int32Array.from(observerOfUnitList),
     labelOf: (unit) => labels[unit] ?? `unit ${unit}`,
@@ -195,7 +221,7 @@ export async function runFullRecompute({
   try {
     const settings = given ?? (await getKSettings());
     await onProgress(0.02, "Reading accepted counts");
-    const { counts, units, observerOfUnit, labelOf } = await loadAcceptedCounts();
+    const { counts, packWrites, units, observerOfUnit, labelOf } = await loadAcceptedCounts();
     lap("read");
 
     const notes: string[] = [];
@@ -277,6 +303,7 @@ export async function runFullRecompute({
         columns: ["year", "hemisphere", "days", "mean"],
         rows: series.yearly.map((y) => [y.year, y.hemisphere, y.days, y.mean]),
       },
+      ...packWrites,
       bumpSeriesRevisionStatement(),
     ]);
     lap("write");

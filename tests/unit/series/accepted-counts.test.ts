@@ -3,13 +3,13 @@ import { describe, expect, it } from "vitest";
 import { toDayNumber } from "@/lib/counts/series";
 import {
   appendCount,
-  countsFromPackedUnits,
+  countsFromPacks,
   createAcceptedCounts,
   NO_SPLIT,
   sliceByKey,
-  type PackedUnit,
 } from "@/lib/series/accepted-counts";
-import { PACKED_DAY_OFFSET, PACKED_FIELD_LIMIT, PACKED_WIDTH } from "@/lib/series/packed-count";
+import { COUNT_PACK_BYTES_PER_COUNT, packsFromPackedText, readCountPack } from "@/lib/series/count-packs";
+import { PACKED_DAY_OFFSET, PACKED_FIELD_LIMIT } from "@/lib/series/packed-count";
 import { MAX_GROUPS, MAX_SPOTS } from "@/lib/validation/observation";
 
 /** The packed form of one count, written here from the format's description (lib/series/packed-count.ts). */
@@ -24,19 +24,21 @@ function pack({ day, raw, north, south }: { day: string; raw: number; north?: nu
   );
 }
 
-describe("countsFromPackedUnits", () => {
-  it("reads plain and split counts from shared strings and puts them in day order", () => {
+/** Units read from packed text, as the recompute reads the instruments it must rebuild. */
+function fromText(packed: string, counts: number[], unitIds: number[]) {
+  return packsFromPackedText(packed, counts).map(({ pack }, i) => ({ unit: unitIds[i]!, pack }));
+}
+
+describe("packsFromPackedText and countsFromPacks", () => {
+  it("reads plain and split counts and puts them in day order", () => {
     const shared =
       pack({ day: "2022-01-02", raw: 30, north: 20, south: 10 }) +
       pack({ day: "2022-01-04", raw: 11 }) +
       pack({ day: "2021-12-31", raw: 47 });
-    const units: PackedUnit[] = [
-      { unit: 1, packed: shared, from: 0, count: 2 },
-      { unit: 0, packed: shared, from: 2 * PACKED_WIDTH, count: 0 },
-      { unit: 3, packed: shared, from: 2 * PACKED_WIDTH, count: 1 },
-      { unit: 2, packed: pack({ day: "2022-01-02", raw: 0, north: 0, south: 0 }), from: 0, count: 1 },
-    ];
-    const counts = countsFromPackedUnits(units);
+    const counts = countsFromPacks([
+      ...fromText(shared, [2, 0, 1], [1, 0, 3]),
+      ...fromText(pack({ day: "2022-01-02", raw: 0, north: 0, south: 0 }), [1], [2]),
+    ]);
     expect(counts.length).toBe(4);
     // toDayNumber is the reference for the day field.
     expect([...counts.dayNumber]).toEqual(
@@ -52,14 +54,13 @@ describe("countsFromPackedUnits", () => {
   it("reads days across centuries, leap days and the largest counts allowed", () => {
     const days = ["1610-01-01", "1899-12-31", "1970-01-01", "2000-02-29", "2024-03-01", "2100-02-28"];
     const largest = 10 * MAX_GROUPS + MAX_SPOTS;
-    const counts = countsFromPackedUnits([
-      {
-        unit: 0,
-        packed: days.map((day) => pack({ day, raw: largest, north: largest, south: 0 })).join(""),
-        from: 0,
-        count: days.length,
-      },
-    ]);
+    const counts = countsFromPacks(
+      fromText(
+        days.map((day) => pack({ day, raw: largest, north: largest, south: 0 })).join(""),
+        [days.length],
+        [0],
+      ),
+    );
     expect([...counts.dayNumber]).toEqual(days.map((d) => toDayNumber(d)));
     expect(new Set(counts.raw)).toEqual(new Set([largest]));
     expect(new Set(counts.northRaw)).toEqual(new Set([largest]));
@@ -71,26 +72,73 @@ describe("countsFromPackedUnits", () => {
     expect(String(toDayNumber("3800-12-31") + PACKED_DAY_OFFSET)).toHaveLength(6);
   });
 
-  it("refuses a unit that runs past its string, and anything but digits", () => {
+  it("refuses text that does not hold exactly the counts expected, and anything but digits", () => {
     const one = pack({ day: "2022-01-02", raw: 4 });
-    for (const unit of [
-      { unit: 0, packed: one, from: 0, count: 2 },
-      { unit: 0, packed: one, from: 1, count: 1 },
-      { unit: 0, packed: one, from: -1, count: 1 },
-      { unit: 0, packed: one.slice(0, 17), from: 0, count: 1 },
-      { unit: 0, packed: `${one.slice(0, 8)}-${one.slice(9)}`, from: 0, count: 1 },
-      { unit: 0, packed: `-1${one.slice(2)}`, from: 0, count: 1 },
+    for (const [packed, counts] of [
+      [one, [2]],
+      [one, [0]],
+      [one, [1, 1]],
+      [one, [-1, 2]],
+      [one, [0.5, 0.5]],
+      [one.slice(0, 17), [1]],
+      [`${one}7`, [1]],
+      [`${one.slice(0, 8)}-${one.slice(9)}`, [1]],
+      [`-1${one.slice(2)}`, [1]],
       // Characters just past "9" and just before "0", in each field.
-      { unit: 0, packed: `${one.slice(0, 5)}:${one.slice(6)}`, from: 0, count: 1 },
-      { unit: 0, packed: `${one.slice(0, 11)}/${one.slice(12)}`, from: 0, count: 1 },
-      { unit: 0, packed: `${one.slice(0, 17)}a`, from: 0, count: 1 },
-    ])
-      expect(() => countsFromPackedUnits([unit]), JSON.stringify(unit)).toThrow(RangeError);
+      [`${one.slice(0, 5)}:${one.slice(6)}`, [1]],
+      [`${one.slice(0, 11)}/${one.slice(12)}`, [1]],
+      [`${one.slice(0, 17)}a`, [1]],
+    ] as const)
+      expect(() => packsFromPackedText(packed, [...counts]), JSON.stringify([packed, counts])).toThrow(
+        RangeError,
+      );
   });
 
   it("reads no units as no counts", () => {
-    expect(countsFromPackedUnits([]).length).toBe(0);
-    expect(countsFromPackedUnits([{ unit: 0, packed: "", from: 0, count: 0 }]).length).toBe(0);
+    expect(countsFromPacks([]).length).toBe(0);
+    expect(countsFromPacks(fromText("", [0], [0])).length).toBe(0);
+  });
+});
+
+describe("count packs as stored", () => {
+  const text =
+    pack({ day: "1610-01-01", raw: 0 }) +
+    pack({ day: "2022-01-02", raw: 30, north: 20, south: 10 }) +
+    pack({
+      day: "3800-12-31",
+      raw: 10 * MAX_GROUPS + MAX_SPOTS,
+      north: 0,
+      south: 10 * MAX_GROUPS + MAX_SPOTS,
+    });
+  const { bytes } = packsFromPackedText(text, [3])[0]!;
+
+  it("are ten little-endian bytes per count, days first, and read back the same counts", () => {
+    expect(bytes.byteLength).toBe(3 * COUNT_PACK_BYTES_PER_COUNT);
+    const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+    expect(view.getInt32(4, true)).toBe(toDayNumber("2022-01-02"));
+    // The second count's fields: 10g + s, north + 1, south + 1.
+    expect([0, 1, 2].map((i) => view.getUint16(12 + 6 + 2 * i, true))).toEqual([30, 21, 11]);
+    // A copy at an odd offset (as a database driver may hand it over) reads the same.
+    const shifted = new Uint8Array(bytes.byteLength + 1);
+    shifted.set(bytes, 1);
+    for (const stored of [bytes.slice().buffer, shifted.subarray(1)]) {
+      const read = readCountPack(stored, 3);
+      expect(read).not.toBeNull();
+      expect(countsFromPacks([{ unit: 5, pack: read! }])).toEqual(countsFromPacks(fromText(text, [3], [5])));
+    }
+  });
+
+  it("are refused when their length, days or values cannot be right", () => {
+    expect(readCountPack(bytes, 2)).toBeNull();
+    expect(readCountPack(bytes, 4)).toBeNull();
+    expect(readCountPack(bytes, -1)).toBeNull();
+    const badDay = bytes.slice();
+    new DataView(badDay.buffer).setInt32(0, 2_000_000, true);
+    expect(readCountPack(badDay, 3)).toBeNull();
+    const badValue = bytes.slice();
+    new DataView(badValue.buffer).setUint16(12, PACKED_FIELD_LIMIT + 1, true);
+    expect(readCountPack(badValue, 3)).toBeNull();
+    expect(readCountPack(new Uint8Array(0), 0)).toEqual(expect.objectContaining({ count: 0 }));
   });
 });
 

@@ -1,9 +1,9 @@
 import "server-only";
 
 import type { InValue } from "@libsql/client";
-import Libsql from "libsql";
+import type Libsql from "libsql";
 
-import { embeddedFileOf, inWriteTransaction, type Database } from "./client";
+import { inWriteTransaction, ownConnection, type Database } from "./client";
 import { insertRows } from "./queries/series";
 
 export type WriteStep =
@@ -14,8 +14,8 @@ export type WriteStep =
  * Runs the steps (statements, and multi-row inserts of many rows) in one
  * write transaction: all of them or, on any error, none.
  *
- * On an embedded database it opens a connection of its own and runs them
- * synchronously on statements prepared once per table: tens of thousands of
+ * On an embedded database it runs them synchronously on the process's own
+ * connection (ownConnection, db/client.ts), on statements prepared once per table: tens of thousands of
  * rows then take about half the time they take through the client,
  * which prepares every statement again and converts every value on the way
  * (measured in tests/bench/series.bench.ts). The event loop waits for the
@@ -27,26 +27,21 @@ export type WriteStep =
  * client transaction.
  */
 export async function writeAllOrNothing(db: Database, steps: readonly WriteStep[]): Promise<void> {
-  const file = embeddedFileOf(db);
-  if (!file) {
+  const connection = ownConnection(db);
+  if (!connection) {
     await writeThroughClient(db, steps);
     return;
   }
-  const connection = new Libsql(file, { timeout: 5_000 });
+  connection.exec("BEGIN IMMEDIATE");
   try {
-    connection.exec("BEGIN IMMEDIATE");
-    try {
-      for (const step of steps) {
-        if ("sql" in step) connection.prepare(step.sql).run(checked(step.args ?? []));
-        else insertPrepared(connection, step);
-      }
-      connection.exec("COMMIT");
-    } catch (error) {
-      if (connection.inTransaction) connection.exec("ROLLBACK");
-      throw error;
+    for (const step of steps) {
+      if ("sql" in step) connection.prepare(step.sql).run(checked(step.args ?? []));
+      else insertPrepared(connection, step);
     }
-  } finally {
-    connection.close();
+    connection.exec("COMMIT");
+  } catch (error) {
+    if (connection.inTransaction) connection.exec("ROLLBACK");
+    throw error;
   }
 }
 

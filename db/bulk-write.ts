@@ -15,14 +15,16 @@ export type WriteStep =
  * write transaction: all of them or, on any error, none.
  *
  * On an embedded database it runs them synchronously on the process's own
- * connection (ownConnection, db/client.ts), on statements prepared once per table: tens of thousands of
- * rows then take about half the time they take through the client,
- * which prepares every statement again and converts every value on the way
- * (measured in tests/bench/series.bench.ts). The event loop waits for the
- * whole write (the longest stall during the bench's full recompute of a
- * million counts is about 50 ms); in return no other request of this
- * process can take its turn while the write lock is held, which could
- * otherwise deadlock a second writer here against it.
+ * connection (ownConnection, db/client.ts), on statements prepared once per
+ * table: tens of thousands of rows then take about half the time they take
+ * through the client, which prepares every statement again and converts
+ * every value on the way (measured in tests/bench/series.bench.ts). The
+ * event loop waits for the whole write: the full recompute of a million
+ * counts writes about 35,000 rows and holds it for about 120 ms, the
+ * longest stall of the recompute. In return no other request of this
+ * process can take its turn while the write lock is held: a second writer
+ * here would wait for the lock on this same thread, which would deadlock
+ * until its busy timeout.
  * With a libSQL server or an embedded replica, the steps go through a
  * client transaction.
  */

@@ -11,9 +11,9 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { writeAllOrNothing } from "@/db/bulk-write";
 import { getDb } from "@/db/client";
 import { loadAcceptedCounts, runFullRecompute } from "@/db/queries/recompute";
-import { observations, type ObservationStatus } from "@/db/schema";
+import { observations } from "@/db/schema";
 
-import { insertInstrument, makeUser } from "./support";
+import { insertInstrument, insertObservation, makeUser } from "./support";
 
 type Made = Awaited<ReturnType<typeof makeUser>>;
 
@@ -21,36 +21,9 @@ let first: Made;
 let second: Made;
 let spare: string;
 
-async function store({
-  owner,
-  instrumentId,
-  day,
-  groups,
-  spots,
-  status = "accepted",
-}: {
-  owner: Made;
-  instrumentId?: string;
-  day: string;
-  groups: number;
-  spots: number;
-  status?: ObservationStatus;
-}): Promise<string> {
-  const [row] = await getDb()
-    .insert(observations)
-    .values({
-      observerId: owner.observer!.id,
-      instrumentId: instrumentId ?? owner.instrument!.id,
-      observedAt: new Date(`${day}T10:00:00Z`),
-      utDate: day,
-      seeing: 2,
-      groups,
-      spots,
-      status,
-    })
-    .returning({ id: observations.id });
-  return row!.id;
-}
+/** An accepted count unless told otherwise. */
+const store = ({ status = "accepted", ...rest }: Parameters<typeof insertObservation>[0]) =>
+  insertObservation({ status, ...rest });
 
 async function changes(): Promise<Map<string, number>> {
   const result = await getDb().$client.execute("SELECT instrument_id, seq FROM count_pack_changes");

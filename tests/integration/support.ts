@@ -2,7 +2,15 @@ import { encode } from "next-auth/jwt";
 import { NextRequest } from "next/server";
 
 import { getDb } from "@/db/client";
-import { classroomMembers, classrooms, instruments, observations, observers, users } from "@/db/schema";
+import {
+  classroomMembers,
+  classrooms,
+  instruments,
+  observations,
+  observers,
+  users,
+  type ObservationStatus,
+} from "@/db/schema";
 import type { Role } from "@/lib/auth/roles";
 
 let counter = 0;
@@ -93,22 +101,29 @@ export async function insertObservation({
   day,
   groups = 0,
   spots = 0,
+  instrumentId,
+  status,
 }: {
   owner: Made;
   day: string;
   groups?: number;
   spots?: number;
+  /** Another of the owner's instruments; their first one by default. */
+  instrumentId?: string;
+  /** Stored as given; "submitted" (the table's default) when left out. */
+  status?: ObservationStatus;
 }): Promise<string> {
   const [row] = await getDb()
     .insert(observations)
     .values({
       observerId: owner.observer!.id,
-      instrumentId: owner.instrument!.id,
+      instrumentId: instrumentId ?? owner.instrument!.id,
       observedAt: new Date(`${day}T10:00:00Z`),
       utDate: day,
       seeing: 2,
       groups,
       spots,
+      status,
     })
     .returning();
   return row!.id;

@@ -235,10 +235,15 @@ export async function runFullRecompute({
         };
     lap("k");
 
+    // Each of the next two steps holds the event loop for its whole length
+    // (the write for about 120 ms on a million counts); a turn for the
+    // server's other requests before each keeps them from adding up.
+    await yieldToServer();
     await onProgress(0.78, "Building the daily, monthly and yearly series");
     const series = computeNetworkSeries({ counts, kOfRow: fitted.kOfRow, observerOfUnit });
     lap("series");
 
+    await yieldToServer();
     await onProgress(0.88, "Writing the new series");
     // Ordered ids: thousands of random ones would be written all over the key's index.
     const makeId = makeOrderedIdMaker({ startMs: Date.now() });

@@ -80,4 +80,30 @@ describe.each([
       expect(await count(), reason).toBe(3);
     }
   });
+
+  it("stores blobs (the count packs) byte for byte, empty ones too", async () => {
+    const db = databaseOf();
+    await db.$client.execute(
+      "CREATE TABLE IF NOT EXISTS bulk_blobs (n INTEGER PRIMARY KEY, bytes BLOB NOT NULL)",
+    );
+    const bytes = Uint8Array.from({ length: 1_000 }, (_, i) => (i * 37) % 256);
+    // A Buffer over part of a larger one, as the recompute hands its packs over.
+    const offset = Buffer.from(Uint8Array.from([9, 9, ...bytes, 9]).buffer, 2, bytes.length);
+    await writeAllOrNothing(db, [
+      { sql: "DELETE FROM bulk_blobs" },
+      {
+        table: "bulk_blobs",
+        columns: ["n", "bytes"],
+        rows: [
+          [1, offset],
+          [2, Buffer.alloc(0)],
+        ],
+      },
+    ]);
+    const stored = await db.$client.execute("SELECT n, bytes FROM bulk_blobs ORDER BY n");
+    expect(stored.rows.map((r) => new Uint8Array(r.bytes as ArrayBuffer))).toEqual([
+      bytes,
+      new Uint8Array(0),
+    ]);
+  });
 });

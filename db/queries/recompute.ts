@@ -125,13 +125,12 @@ export async function loadAcceptedCounts(): Promise<
       const row = result.rows[0];
       const made = new Map<string, { pack: CountPack; bytes: Uint8Array }>();
       if (row?.ids != null) {
-        const packs = packsFromPackedText(
-          String(row.packed ?? ""),
-          String(row.counts).split(",").map(Number),
-        );
-        String(row.ids)
-          .split(",")
-          .forEach((instrumentId, i) => made.set(instrumentId, packs[i]!));
+        const ids = String(row.ids).split(",");
+        const counts = String(row.counts).split(",").map(Number);
+        if (ids.length !== counts.length)
+          throw new RangeError(`Read ${ids.length} instruments but ${counts.length} numbers of counts`);
+        const packs = packsFromPackedText(String(row.packed ?? ""), counts);
+        ids.forEach((instrumentId, i) => made.set(instrumentId, packs[i]!));
       }
       // Instruments without accepted counts get an empty pack, so they are not read again.
       for (const instrumentId of batch) {

@@ -18,7 +18,7 @@ import {
   type RunningSums,
 } from "@/lib/counts/series";
 
-import { NO_SPLIT, sliceByKey, type AcceptedCounts } from "./accepted-counts";
+import { NO_SPLIT, type AcceptedCounts } from "./accepted-counts";
 
 /** The whole disk, or one hemisphere (a group belongs to the hemisphere of its centre). */
 export type Hemisphere = "all" | "N" | "S";
@@ -205,6 +205,41 @@ export function computeNetworkSeries({
   observerOfUnit: Int32Array;
 }): { daily: DailyRow[]; monthly: MonthlyRow[]; yearly: YearlyRow[] } {
   const daily: DailyRow[] = [];
+  appendDailyRows({ counts, kOfRow, observerOfUnit, from: 0, to: counts.length, daily });
+  return seriesFromDaily(daily);
+}
+
+/** The monthly and yearly rows that go with daily rows in day order. */
+export function seriesFromDaily(daily: DailyRow[]): {
+  daily: DailyRow[];
+  monthly: MonthlyRow[];
+  yearly: YearlyRow[];
+} {
+  const monthly = summariseMonthsFromDays(daily);
+  return { daily, monthly, yearly: summariseYearsFromMonths(monthly) };
+}
+
+/**
+ * The daily rows of rows [from, to) of `counts` (whole days: `from` and
+ * `to` fall on day boundaries), appended to `daily` in day order. The full
+ * recompute calls it a slice of days at a time, letting other requests in
+ * between.
+ */
+export function appendDailyRows({
+  counts,
+  kOfRow,
+  observerOfUnit,
+  from: start,
+  to: end,
+  daily,
+}: {
+  counts: AcceptedCounts;
+  kOfRow: Float64Array;
+  observerOfUnit: Int32Array;
+  from: number;
+  to: number;
+  daily: DailyRow[];
+}): void {
   // Per-observer accumulators in typed arrays, reset through the list of
   // observers seen each day: a million updates of numbers in plain arrays
   // rather than of objects' fields, and no garbage.
@@ -218,7 +253,11 @@ export function computeNetworkSeries({
   // Reused from day to day, one per observer of the busiest day.
   const dayValues: ObserverDayValue[] = [];
 
-  for (const { key: dayNumber, from, to } of sliceByKey({ counts, keyOf: (d) => d })) {
+  let from = start;
+  while (from < end) {
+    const dayNumber = counts.dayNumber[from] as number;
+    let to = from + 1;
+    while (to < end && counts.dayNumber[to] === dayNumber) to++;
     let seenCount = 0;
     for (let i = from; i < to; i++) {
       const observer = observerOfUnit[counts.unit[i] as number] as number;
@@ -246,9 +285,8 @@ export function computeNetworkSeries({
       n[observer] = nSplit[observer] = 0;
     }
     for (const row of summariseDay({ day: formatDayNumber(dayNumber), values: dayValues })) daily.push(row);
+    from = to;
   }
-  const monthly = summariseMonthsFromDays(daily);
-  return { daily, monthly, yearly: summariseYearsFromMonths(monthly) };
 }
 
 /** Monthly rows (with smoothed values) from daily rows in day order. */

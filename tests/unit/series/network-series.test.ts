@@ -1,13 +1,15 @@
 import { describe, expect, it } from "vitest";
 
 import { computeDailyIndex, computeMonthlyMeans, computeYearlyMeans, toDayNumber } from "@/lib/counts/series";
-import { appendCount, createAcceptedCounts } from "@/lib/series/accepted-counts";
+import { appendCount, createAcceptedCounts, sliceByKey } from "@/lib/series/accepted-counts";
 import {
+  appendDailyRows,
   combineObserverCounts,
   computeNetworkSeries,
   computeSmoothedAt,
   summariseDay,
   summariseMonth,
+  seriesFromDaily,
   summariseYear,
 } from "@/lib/series/network-series";
 
@@ -181,5 +183,36 @@ describe("computeNetworkSeries", () => {
       observerOfUnit: Int32Array.from([0, 0, 1]),
     });
     expect(daily).toEqual([expect.objectContaining({ hemisphere: "all", observers: 2, mean: 30, sd: 0 })]);
+  });
+});
+
+describe("daily rows a slice of days at a time", () => {
+  it("gives the same series as all days at once", () => {
+    const random = createRandom(7);
+    const counts = createAcceptedCounts(0);
+    for (let day = 19_000; day < 19_400; day++) {
+      for (let unit = 0; unit < 4; unit++) {
+        if (random() < 0.3) continue;
+        const split = unit % 2 === 0;
+        const raw = Math.floor(random() * 120);
+        appendCount(counts, {
+          dayNumber: day,
+          unit,
+          raw,
+          northRaw: split ? Math.floor(raw / 3) : undefined,
+          southRaw: split ? raw - Math.floor(raw / 3) : undefined,
+        });
+      }
+    }
+    const kOfRow = Float64Array.from({ length: counts.length }, () => 0.5 + random());
+    const observerOfUnit = Int32Array.from([0, 1, 1, 2]);
+    const whole = computeNetworkSeries({ counts, kOfRow, observerOfUnit });
+    for (const days of [1, 7, 64]) {
+      const daily: Parameters<typeof seriesFromDaily>[0] = [];
+      for (const { from, to } of sliceByKey({ counts, keyOf: (day) => Math.floor(day / days) }))
+        appendDailyRows({ counts, kOfRow, observerOfUnit, from, to, daily });
+      expect(seriesFromDaily(daily), `${days} days a slice`).toEqual(whole);
+    }
+    expect(whole.daily.length).toBeGreaterThan(800);
   });
 });

@@ -92,13 +92,14 @@ export async function inWriteTransaction<T>(db: Database, work: (tx: Transaction
   }
 }
 
-/** The file of an embedded database this process may open directly, or null (a server, a replica, memory). */
-export function embeddedFileOf(db: Database): string | null {
-  return lookups.get(db.$client)?.file ?? null;
-}
-
-/** The lookups' own connection to an embedded database (opened once), or null without one. */
-function ownConnection(db: Database): Connection | null {
+/**
+ * The connection of this process's own to an embedded database (opened once,
+ * shared by the lookups and the bulk writes), or null for a libSQL server,
+ * an embedded replica or a database in memory. Used only synchronously, so
+ * one user never finds it in the middle of another's statement or
+ * transaction.
+ */
+export function ownConnection(db: Database): Connection | null {
   const own = lookups.get(db.$client);
   if (!own) return null;
   own.open ??= { connection: new Libsql(own.file, { timeout: 5_000 }), statements: new Map() };

@@ -1,5 +1,5 @@
 /**
- * writeAllOrNothing (db/bulk-write.ts): both of its paths (its writer thread
+ * writeAllOrNothing (db/bulk-write.ts): both of its paths (its own connection
  * on an embedded database, a client transaction elsewhere) store every row
  * or none, and refuse what the client refuses.
  */
@@ -23,7 +23,7 @@ const rowsOf = (count: number, from = 0) =>
   Array.from({ length: count }, (_, i) => [from + i, `row ${from + i}`, i % 7 === 0 ? null : (from + i) / 4]);
 
 describe.each([
-  ["an embedded file (its writer thread)", () => getDb()],
+  ["an embedded file (its own connection)", () => getDb()],
   ["an in-memory database (a client transaction)", () => memory],
 ])("writeAllOrNothing on %s", (_name, databaseOf) => {
   const count = async () =>
@@ -105,34 +105,5 @@ describe.each([
       bytes,
       new Uint8Array(0),
     ]);
-  });
-});
-
-describe("writeAllOrNothing on an embedded file", () => {
-  it("leaves the event loop free while its thread writes, and lets a writer here wait its turn", async () => {
-    const db = getDb();
-    let turns = 0;
-    let counting = true;
-    const count = () => {
-      turns++;
-      if (counting) setImmediate(count);
-    };
-    setImmediate(count);
-    // About 100 ms of writing on this machine: the loop turns many times meanwhile.
-    const write = writeAllOrNothing(db, [
-      { sql: "DELETE FROM bulk_test" },
-      { table: "bulk_test", columns: ["n", "label", "value"], rows: rowsOf(50_000) },
-    ]);
-    // A write through the client while the thread may hold the write lock:
-    // it waits for the lock (nothing the thread needs is on this thread).
-    await db.$client.execute("CREATE TABLE IF NOT EXISTS bulk_side (n INTEGER)");
-    await db.$client.execute("INSERT INTO bulk_side (n) VALUES (1)");
-    await write;
-    counting = false;
-    expect(turns).toBeGreaterThan(5);
-    const stored = await db.$client.execute(
-      "SELECT (SELECT count(*) FROM bulk_test) AS rows, (SELECT count(*) FROM bulk_side) AS side",
-    );
-    expect(stored.rows[0]).toMatchObject({ rows: 50_000, side: 1 });
   });
 });

@@ -1,4 +1,4 @@
-import { writeFileSync, mkdtempSync } from "node:fs";
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 
@@ -275,13 +275,18 @@ describe("GET /api/v1/admin/snapshot", () => {
     expect(Number(res.headers.get("content-length"))).toBe(bytes.length);
     // Every SQLite database file starts with this 16-byte header (sqlite.org file format, section 1.3).
     expect(new TextDecoder().decode(bytes.subarray(0, 16))).toBe("SQLite format 3\u0000");
-    const file = path.join(mkdtempSync(path.join(tmpdir(), "snapshot-check-")), "copy.sqlite");
-    writeFileSync(file, bytes);
-    const copy = createClient({ url: `file:${file}` });
-    const counted = await copy.execute("SELECT count(*) AS n FROM observations");
-    const [live] = await getDb().select({ n: count() }).from(observations);
-    expect(Number(counted.rows[0]!.n)).toBe(live!.n);
-    copy.close();
+    const folder = mkdtempSync(path.join(tmpdir(), "snapshot-check-"));
+    try {
+      const file = path.join(folder, "copy.sqlite");
+      writeFileSync(file, bytes);
+      const copy = createClient({ url: `file:${file}` });
+      const counted = await copy.execute("SELECT count(*) AS n FROM observations");
+      const [live] = await getDb().select({ n: count() }).from(observations);
+      expect(Number(counted.rows[0]!.n)).toBe(live!.n);
+      copy.close();
+    } finally {
+      rmSync(folder, { recursive: true, force: true });
+    }
   });
 
   it("is refused to coordinators and to API tokens, even an admin's", async () => {

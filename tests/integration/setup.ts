@@ -2,7 +2,7 @@
  * Every integration test file gets its own temporary SQLite database,
  * migrated from drizzle/, and a fixed auth secret.
  */
-import { mkdtempSync } from "node:fs";
+import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 
@@ -23,4 +23,5 @@ beforeAll(async () => {
 afterAll(async () => {
   const { getDb } = await import("@/db/client");
   getDb().$client.close();
+  rmSync(folder, { recursive: true, force: true });
 });

@@ -4,6 +4,7 @@ import { signIn } from "next-auth/react";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 
+import { useHydrated } from "@/components/classrooms/use-validated-action";
 import { Button } from "@/components/ui/button";
 import { Field, FormMessage, Input } from "@/components/ui/field";
 import { credentialsSchema, signInLinkSchema } from "@/lib/validation/account";
@@ -17,6 +18,9 @@ export function SignInForm({ callbackUrl, initialError }: { callbackUrl?: string
     initialError ? { tone: "error", text: initialError } : null,
   );
   const [busy, setBusy] = useState(false);
+  // A click before the page has hydrated would submit the form to nowhere
+  // and do nothing; the buttons wait until the handlers exist.
+  const ready = useHydrated();
   // Only same-site paths are followed after sign-in.
   const target =
     callbackUrl && callbackUrl.startsWith("/") && !callbackUrl.startsWith("//") ? callbackUrl : "/";
@@ -87,13 +91,13 @@ export function SignInForm({ callbackUrl, initialError }: { callbackUrl?: string
           aria-invalid={Boolean(errors.password)}
         />
       </Field>
-      <Button type="submit" disabled={busy}>
+      <Button type="submit" disabled={busy || !ready}>
         {busy ? "Signing in…" : "Sign in"}
       </Button>
       <div className="flex items-center gap-3 text-xs text-ink-400">
         <span className="h-px flex-1 bg-ink-100" /> or <span className="h-px flex-1 bg-ink-100" />
       </div>
-      <Button type="submit" variant="secondary" formAction={onLink} disabled={busy}>
+      <Button type="submit" variant="secondary" formAction={onLink} disabled={busy || !ready}>
         E-mail me a sign-in link
       </Button>
     </form>

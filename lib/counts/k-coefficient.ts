@@ -379,58 +379,18 @@ function fitNetwork({
 
   const k = new Float64Array(observerCount).fill(1);
   k[pilot] = pilotK;
-  const daySum = new Float64Array(slotCount);
   const fitted = new Float64Array(observerCount);
-  const scratch = new Float64Array(layout.maxObservationsPerObserver);
+  const step =
+    method === "ratio-of-sums"
+      ? prepareRatioOfSumsStep({ layout, inNetwork, dayCount, positiveCount, leaveOwnOut })
+      : prepareRatiosStep({ layout, inNetwork, dayCount, positiveCount, leaveOwnOut, method });
 
   let iterations = 0;
   let converged = false;
   let maxRelativeChange = Number.POSITIVE_INFINITY;
   while (iterations < maxIterations) {
     iterations++;
-    daySum.fill(0);
-    for (let i = 0; i < observerCount; i++) {
-      if (inNetwork[i] !== 1) continue;
-      const ki = k[i] as number;
-      for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++) {
-        const slot = slots[j] as number;
-        daySum[slot] = (daySum[slot] as number) + ki * (raws[j] as number);
-      }
-    }
-
-    for (let i = 0; i < observerCount; i++) {
-      if (inNetwork[i] !== 1) continue;
-      const ownShare = leaveOwnOut ? (k[i] as number) : 0;
-      let sumReference = 0;
-      let sumRaw = 0;
-      let sumRatio = 0;
-      let used = 0;
-      for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++) {
-        const raw = raws[j] as number;
-        const slot = slots[j] as number;
-        // A usable day needs the observer's own count and at least one other
-        // network observer with spots (otherwise the reference is 0).
-        if (!(raw > 0) || (positiveCount[slot] as number) < 2) continue;
-        const divisor = (dayCount[slot] as number) - (leaveOwnOut ? 1 : 0);
-        const reference = ((daySum[slot] as number) - ownShare * raw) / divisor;
-        if (method === "ratio-of-sums") {
-          sumReference += reference;
-          sumRaw += raw;
-        } else if (method === "mean-of-ratios") {
-          sumRatio += reference / raw;
-        } else {
-          scratch[used] = reference / raw;
-        }
-        used++;
-      }
-      fitted[i] =
-        method === "ratio-of-sums"
-          ? sumReference / sumRaw
-          : method === "mean-of-ratios"
-            ? sumRatio / used
-            : computeMedianInPlace(scratch, used);
-    }
-
+    step(k, fitted);
     // Hold the pilot fixed by rescaling everyone: the pilot's fitted value
     // against this index defines what "k = pilotK" means.
     const scale = pilotK / (fitted[pilot] as number);
@@ -462,6 +422,152 @@ function fitNetwork({
     converged,
     maxRelativeChange,
   });
+}
+
+/** One refit of every network observer's k against the index the current k values build. */
+type NetworkStep = (k: Float64Array, fitted: Float64Array) => void;
+
+type StepInput = {
+  layout: Layout;
+  inNetwork: Uint8Array;
+  dayCount: Float64Array;
+  positiveCount: Float64Array;
+  leaveOwnOut: boolean;
+};
+
+/**
+ * Mean or median of ratios: each usable day's reference,
+ * (daySum − own k·raw) / (others), is formed anew in every iteration.
+ */
+function prepareRatiosStep({
+  layout,
+  inNetwork,
+  dayCount,
+  positiveCount,
+  leaveOwnOut,
+  method,
+}: StepInput & { method: "mean-of-ratios" | "median-of-ratios" }): NetworkStep {
+  const { observerCount, offsets, slots, raws, slotCount } = layout;
+  const daySum = new Float64Array(slotCount);
+  const scratch = new Float64Array(layout.maxObservationsPerObserver);
+  return (k, fitted) => {
+    daySum.fill(0);
+    for (let i = 0; i < observerCount; i++) {
+      if (inNetwork[i] !== 1) continue;
+      const ki = k[i] as number;
+      for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++) {
+        const slot = slots[j] as number;
+        daySum[slot] = (daySum[slot] as number) + ki * (raws[j] as number);
+      }
+    }
+    for (let i = 0; i < observerCount; i++) {
+      if (inNetwork[i] !== 1) continue;
+      const ownShare = leaveOwnOut ? (k[i] as number) : 0;
+      let sumRatio = 0;
+      let used = 0;
+      for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++) {
+        const raw = raws[j] as number;
+        const slot = slots[j] as number;
+        // A usable day needs the observer's own count and at least one other
+        // network observer with spots (otherwise the reference is 0).
+        if (!(raw > 0) || (positiveCount[slot] as number) < 2) continue;
+        const divisor = (dayCount[slot] as number) - (leaveOwnOut ? 1 : 0);
+        const ratio = ((daySum[slot] as number) - ownShare * raw) / divisor / raw;
+        if (method === "mean-of-ratios") sumRatio += ratio;
+        else scratch[used] = ratio;
+        used++;
+      }
+      fitted[i] = method === "mean-of-ratios" ? sumRatio / used : computeMedianInPlace(scratch, used);
+    }
+  };
+}
+
+/**
+ * Ratio of sums, the default, rearranged so an iteration costs two light
+ * passes. With w_d = 1 / (the day's other network observers) and D_i
+ * observer i's usable days (own count with spots, and another network
+ * observer with spots),
+ *   Σ_{d∈D_i} reference_d = Σ_{d∈D_i} w_d·daySum_d − k_i·Σ_{d∈D_i} w_d·raw_id,
+ * where the second sum, like Σ_{d∈D_i} raw_id, stays the same in every
+ * iteration. So an iteration only adds up each day's sum (from the counts
+ * with spots) and then, per observer, w_d·daySum_d over its usable days:
+ * no division and no test per count.
+ */
+function prepareRatioOfSumsStep({
+  layout,
+  inNetwork,
+  dayCount,
+  positiveCount,
+  leaveOwnOut,
+}: StepInput): NetworkStep {
+  const { observerCount, offsets, slots, raws, slotCount } = layout;
+  const weight = new Float64Array(slotCount);
+  for (let slot = 0; slot < slotCount; slot++) {
+    const others = (dayCount[slot] as number) - (leaveOwnOut ? 1 : 0);
+    weight[slot] = others > 0 ? 1 / others : 0;
+  }
+  // Compacted once: the network's counts with spots (the only ones adding
+  // to a day's sum), and each observer's usable days.
+  let positives = 0;
+  for (let i = 0; i < observerCount; i++) {
+    if (inNetwork[i] !== 1) continue;
+    for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++)
+      if ((raws[j] as number) > 0) positives++;
+  }
+  const positiveSlots = new Int32Array(positives);
+  const positiveRaws = new Float64Array(positives);
+  const positiveOffsets = new Int32Array(observerCount + 1);
+  const usableSlots = new Int32Array(positives);
+  const usableOffsets = new Int32Array(observerCount + 1);
+  const sumRaw = new Float64Array(observerCount);
+  const sumWeightedRaw = new Float64Array(observerCount);
+  let p = 0;
+  let u = 0;
+  for (let i = 0; i < observerCount; i++) {
+    positiveOffsets[i] = p;
+    usableOffsets[i] = u;
+    if (inNetwork[i] !== 1) continue;
+    let raw = 0;
+    let weighted = 0;
+    for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++) {
+      const value = raws[j] as number;
+      if (!(value > 0)) continue;
+      const slot = slots[j] as number;
+      positiveSlots[p] = slot;
+      positiveRaws[p++] = value;
+      if ((positiveCount[slot] as number) < 2) continue;
+      usableSlots[u++] = slot;
+      raw += value;
+      weighted += value * (weight[slot] as number);
+    }
+    sumRaw[i] = raw;
+    sumWeightedRaw[i] = leaveOwnOut ? weighted : 0;
+  }
+  positiveOffsets[observerCount] = p;
+  usableOffsets[observerCount] = u;
+
+  const weightedDaySum = new Float64Array(slotCount);
+  return (k, fitted) => {
+    weightedDaySum.fill(0);
+    for (let i = 0; i < observerCount; i++) {
+      const ki = k[i] as number;
+      const end = positiveOffsets[i + 1] as number;
+      for (let j = positiveOffsets[i] as number; j < end; j++) {
+        const slot = positiveSlots[j] as number;
+        weightedDaySum[slot] = (weightedDaySum[slot] as number) + ki * (positiveRaws[j] as number);
+      }
+    }
+    for (let slot = 0; slot < slotCount; slot++)
+      weightedDaySum[slot] = (weightedDaySum[slot] as number) * (weight[slot] as number);
+    for (let i = 0; i < observerCount; i++) {
+      if (inNetwork[i] !== 1) continue;
+      let sumReference = 0;
+      const end = usableOffsets[i + 1] as number;
+      for (let j = usableOffsets[i] as number; j < end; j++)
+        sumReference += weightedDaySum[usableSlots[j] as number] as number;
+      fitted[i] = (sumReference - (k[i] as number) * (sumWeightedRaw[i] as number)) / (sumRaw[i] as number);
+    }
+  };
 }
 
 /** Observations regrouped by observer into flat typed arrays (CSR layout), with days mapped to compact slots. */

@@ -99,6 +99,69 @@ describe("estimateNetworkK on exact (noise-free) data", () => {
   });
 });
 
+describe("estimateNetworkK at its fixed point", () => {
+  // The default method's iteration is rearranged for speed (sums over each
+  // observer's days hoisted out of the loop); this checks the result against
+  // the definition itself, computed the slow way: each network observer's k
+  // is its ratio of sums against the mean of the other observers' k·raw on
+  // its usable days, rescaled so the pilot's own fit is pilotK. Noisy
+  // counts, clouds, zero counts and observers below the minimum included.
+  const network = generateSyntheticNetwork({
+    seed: 31,
+    observerCount: 14,
+    dayCount: 150,
+    noise: "poisson",
+    coverage: 0.55,
+    activityMinimum: 5,
+    activityMaximum: 120,
+  });
+  const observations = network.observations.filter(
+    // Two observers with few days, so they stay below the minimum.
+    (o) => !(o.observerId >= "obs-012" && o.day % 9 !== 0),
+  );
+  const pilotId = "obs-000";
+  const pilotK = 0.9;
+
+  for (const leaveOwnOut of [true, false]) {
+    it(`matches the definition, own value ${leaveOwnOut ? "left out" : "kept in"}`, () => {
+      const result = estimateNetworkK({ observations, pilotId, pilotK, leaveOwnOut, tolerance: 1e-13 });
+      expect(result.converged).toBe(true);
+      const members = [...result.byObserver].filter(
+        ([, e]) => e.status === "network" || e.status === "pilot",
+      );
+      expect(members.length).toBeGreaterThan(8);
+      expect([...result.byObserver.values()].some((e) => e.status === "below-minimum")).toBe(true);
+
+      const kOf = new Map(members.map(([id, e]) => [id, e.k as number]));
+      const byDay = new Map<number, NetworkObservation[]>();
+      for (const o of observations) {
+        if (!kOf.has(o.observerId)) continue;
+        const day = Number(o.day);
+        byDay.set(day, [...(byDay.get(day) ?? []), o]);
+      }
+      const fitOf = (observerId: string) => {
+        let sumReference = 0;
+        let sumRaw = 0;
+        for (const [, day] of byDay) {
+          const own = day.find((o) => o.observerId === observerId);
+          if (!own || !(own.raw > 0)) continue;
+          const others = day.filter((o) => o.observerId !== observerId);
+          if (!others.some((o) => o.raw > 0)) continue;
+          const pool = leaveOwnOut ? others : day;
+          const reference = pool.reduce((sum, o) => sum + kOf.get(o.observerId)! * o.raw, 0) / pool.length;
+          sumReference += reference;
+          sumRaw += own.raw;
+        }
+        return sumReference / sumRaw;
+      };
+      const scale = pilotK / fitOf(pilotId);
+      for (const [observerId, estimate] of members) {
+        expect(Math.abs((fitOf(observerId) * scale) / (estimate.k as number) - 1)).toBeLessThan(1e-9);
+      }
+    });
+  }
+});
+
 describe("estimateNetworkK on a noisy synthetic network (60 common days)", () => {
   // Same generator as the imported-reference test: activity 250–400, raw
   // counts with uniform ±√N noise. Against the network, each k carries its

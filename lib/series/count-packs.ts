@@ -114,7 +114,7 @@ export function packsFromPackedText(
 
 /**
  * A stored pack, or null when it cannot be trusted (wrong length, a day out
- * of range, a value too large): the caller then rebuilds it from the
+ * of range or out of order, a value too large): the caller then rebuilds it from the
  * observations.
  */
 export function readCountPack(stored: ArrayBuffer | Uint8Array, count: number): CountPack | null {
@@ -137,6 +137,7 @@ export function readCountPack(stored: ArrayBuffer | Uint8Array, count: number): 
   for (let i = 0; i < count; i++) {
     const day = pack.days[i] as number;
     if (day < FIRST_DAY || day > LAST_DAY) return null;
+    if (i > 0 && day < (pack.days[i - 1] as number)) return null;
   }
   for (let i = 0; i < 3 * count; i++) if ((pack.values[i] as number) > PACKED_FIELD_LIMIT) return null;
   return pack;

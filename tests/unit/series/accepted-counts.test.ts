@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 
-import { toDayNumber } from "@/lib/counts/series";
+import { formatDayNumber, toDayNumber } from "@/lib/counts/series";
 import {
   appendCount,
   countsFromPacks,
@@ -94,6 +94,38 @@ describe("packsFromPackedText and countsFromPacks", () => {
       );
   });
 
+  it("puts many units' counts in the order a plain sort gives", () => {
+    // Invented counts: 40 units, each on a random subset of 300 days, some
+    // with a day of two counts, a few with none.
+    let seed = 7;
+    const random = () => (seed = (seed * 48_271) % 2_147_483_647) / 2_147_483_647;
+    const rows: Array<{ day: number; unit: number; raw: number; north: number | undefined }> = [];
+    const units = Array.from({ length: 40 }, (_, unit) => {
+      const mine: typeof rows = [];
+      for (let day = 19_000; day < 19_300; day++) {
+        if (unit % 13 === 5 || random() > 0.4) continue;
+        const repeats = random() < 0.05 ? 2 : 1;
+        for (let r = 0; r < repeats; r++)
+          mine.push({ day, unit, raw: Math.floor(random() * 300), north: unit % 3 ? undefined : 4 });
+      }
+      rows.push(...mine);
+      const text = mine
+        .map((m) => pack({ day: formatDayNumber(m.day), raw: m.raw, north: m.north, south: m.north }))
+        .join("");
+      return fromText(text, [mine.length], [unit])[0]!;
+    });
+    // Given in reverse unit order: within a day, rows follow that order.
+    const counts = countsFromPacks([...units].reverse());
+    const expected = rows
+      .map((row, position) => ({ ...row, position }))
+      .sort((a, b) => a.day - b.day || b.unit - a.unit || a.position - b.position);
+    expect(counts.length).toBe(expected.length);
+    expect([...counts.dayNumber]).toEqual(expected.map((r) => r.day));
+    expect([...counts.unit]).toEqual(expected.map((r) => r.unit));
+    expect([...counts.raw]).toEqual(expected.map((r) => r.raw));
+    expect([...counts.northRaw]).toEqual(expected.map((r) => r.north ?? NO_SPLIT));
+  });
+
   it("reads no units as no counts", () => {
     expect(countsFromPacks([]).length).toBe(0);
     expect(countsFromPacks(fromText("", [0], [0])).length).toBe(0);
@@ -138,6 +170,9 @@ describe("count packs as stored", () => {
     const badValue = bytes.slice();
     new DataView(badValue.buffer).setUint16(12, PACKED_FIELD_LIMIT + 1, true);
     expect(readCountPack(badValue, 3)).toBeNull();
+    const outOfOrder = bytes.slice();
+    new DataView(outOfOrder.buffer).setInt32(8, toDayNumber("2022-01-01"), true);
+    expect(readCountPack(outOfOrder, 3)).toBeNull();
     expect(readCountPack(new Uint8Array(0), 0)).toEqual(expect.objectContaining({ count: 0 }));
   });
 });

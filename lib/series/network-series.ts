@@ -10,13 +10,7 @@
  * keeps an incrementally updated archive equal to a recomputed one.
  */
 
-import {
-  EMPTY_SUMS,
-  formatDayNumber,
-  smoothed13,
-  summariseSums,
-  type RunningSums,
-} from "@/lib/counts/series";
+import { formatDayNumber, smoothed13, summariseSums } from "@/lib/counts/series";
 
 import { NO_SPLIT, type AcceptedCounts } from "./accepted-counts";
 
@@ -94,44 +88,62 @@ export function summariseDay({
   day: string;
   values: ReadonlyArray<ObserverDayValue>;
 }): DailyRow[] {
-  // Plain accumulators rather than addToSums: the full recompute runs this
-  // for every observer of every day (a million times), and the arithmetic
-  // is the same.
-  const total: RunningSums = { ...EMPTY_SUMS };
-  const north: RunningSums = { ...EMPTY_SUMS };
-  const south: RunningSums = { ...EMPTY_SUMS };
-  for (const value of values) {
-    accumulate(total, value.total);
-    if (value.north !== null && value.south !== null) {
-      accumulate(north, value.north);
-      accumulate(south, value.south);
-    }
-  }
+  const sums = new DaySums();
+  for (const value of values) sums.add(value.total, value.north, value.south);
   const rows: DailyRow[] = [];
-  for (const [hemisphere, sums] of [
-    ["all", total],
-    ["N", north],
-    ["S", south],
-  ] as const) {
-    const summary = summariseSums(sums);
-    if (!summary) continue;
-    rows.push({
-      day,
-      hemisphere,
-      observers: sums.n,
-      sum: sums.sum,
-      sumSquares: sums.sumSquares,
-      mean: summary.relativeNumber,
-      sd: summary.sd,
-    });
-  }
+  sums.appendRows(day, rows);
   return rows;
 }
 
-function accumulate(sums: RunningSums, value: number): void {
-  sums.n += 1;
-  sums.sum += value;
-  sums.sumSquares += value * value;
+/**
+ * A day's running sums for the whole disk and each hemisphere, in plain
+ * numbers: both paths add their observers' values through it in the same
+ * order, so their rows agree to the last bit, and the full recompute, which
+ * does this for every observer of every day (a million times), makes no
+ * object per value.
+ */
+class DaySums {
+  n = 0;
+  sum = 0;
+  sumSquares = 0;
+  /** Observers with a north/south split (the same for both hemispheres). */
+  nSplit = 0;
+  northSum = 0;
+  northSquares = 0;
+  southSum = 0;
+  southSquares = 0;
+
+  add(total: number, north: number | null, south: number | null): void {
+    this.n += 1;
+    this.sum += total;
+    this.sumSquares += total * total;
+    if (north !== null && south !== null) {
+      this.nSplit += 1;
+      this.northSum += north;
+      this.northSquares += north * north;
+      this.southSum += south;
+      this.southSquares += south * south;
+    }
+  }
+
+  appendRows(day: string, rows: DailyRow[]): void {
+    pushDailyRow(rows, day, "all", this.n, this.sum, this.sumSquares);
+    pushDailyRow(rows, day, "N", this.nSplit, this.northSum, this.northSquares);
+    pushDailyRow(rows, day, "S", this.nSplit, this.southSum, this.southSquares);
+  }
+}
+
+function pushDailyRow(
+  rows: DailyRow[],
+  day: string,
+  hemisphere: Hemisphere,
+  observers: number,
+  sum: number,
+  sumSquares: number,
+): void {
+  const summary = summariseSums({ n: observers, sum, sumSquares });
+  if (!summary) return;
+  rows.push({ day, hemisphere, observers, sum, sumSquares, mean: summary.relativeNumber, sd: summary.sd });
 }
 
 /** A month's row from its days' means (in day order); null when no day has data. */
@@ -250,9 +262,6 @@ export function appendDailyRows({
   const n = new Int32Array(observerCount);
   const nSplit = new Int32Array(observerCount);
   const seen = new Int32Array(observerCount);
-  // Reused from day to day, one per observer of the busiest day.
-  const dayValues: ObserverDayValue[] = [];
-
   let from = start;
   while (from < end) {
     const dayNumber = counts.dayNumber[from] as number;
@@ -273,18 +282,21 @@ export function appendDailyRows({
         nSplit[observer] = (nSplit[observer] as number) + 1;
       }
     }
-    dayValues.length = seenCount;
+    // Each observer's value of the day, in order of first appearance, as
+    // combineObserverCounts gives it to summariseDay.
+    const sums = new DaySums();
     for (let slot = 0; slot < seenCount; slot++) {
       const observer = seen[slot] as number;
-      const value = (dayValues[slot] ??= { total: 0, north: null, south: null });
       const splits = nSplit[observer] as number;
-      value.total = (total[observer] as number) / (n[observer] as number);
-      value.north = splits > 0 ? (north[observer] as number) / splits : null;
-      value.south = splits > 0 ? (south[observer] as number) / splits : null;
+      sums.add(
+        (total[observer] as number) / (n[observer] as number),
+        splits > 0 ? (north[observer] as number) / splits : null,
+        splits > 0 ? (south[observer] as number) / splits : null,
+      );
       total[observer] = north[observer] = south[observer] = 0;
       n[observer] = nSplit[observer] = 0;
     }
-    for (const row of summariseDay({ day: formatDayNumber(dayNumber), values: dayValues })) daily.push(row);
+    sums.appendRows(formatDayNumber(dayNumber), daily);
     from = to;
   }
 }

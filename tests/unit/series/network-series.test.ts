@@ -1,7 +1,13 @@
 import { describe, expect, it } from "vitest";
 
-import { computeDailyIndex, computeMonthlyMeans, computeYearlyMeans, toDayNumber } from "@/lib/counts/series";
-import { appendCount, createAcceptedCounts, sliceByKey } from "@/lib/series/accepted-counts";
+import {
+  computeDailyIndex,
+  computeMonthlyMeans,
+  computeYearlyMeans,
+  formatDayNumber,
+  toDayNumber,
+} from "@/lib/counts/series";
+import { appendCount, createAcceptedCounts, NO_SPLIT, sliceByKey } from "@/lib/series/accepted-counts";
 import {
   appendDailyRows,
   combineObserverCounts,
@@ -214,5 +220,28 @@ describe("daily rows a slice of days at a time", () => {
       expect(seriesFromDaily(daily), `${days} days a slice`).toEqual(whole);
     }
     expect(whole.daily.length).toBeGreaterThan(800);
+
+    // The incremental refresh builds each day from database rows through
+    // combineObserverCounts and summariseDay: the same rows, to the bit.
+    const byDay = new Map<number, Parameters<typeof combineObserverCounts>[0][number][]>();
+    for (let i = 0; i < counts.length; i++) {
+      const day = counts.dayNumber[i]!;
+      const split = counts.northRaw[i] !== NO_SPLIT;
+      byDay.set(day, [
+        ...(byDay.get(day) ?? []),
+        {
+          observerKey: String(observerOfUnit[counts.unit[i]!]),
+          k: kOfRow[i]!,
+          raw: counts.raw[i]!,
+          northRaw: split ? counts.northRaw[i]! : null,
+          southRaw: split ? counts.southRaw[i]! : null,
+        },
+      ]);
+    }
+    const incremental = [...byDay].flatMap(([day, scaled]) =>
+      summariseDay({ day: formatDayNumber(day), values: combineObserverCounts(scaled) }),
+    );
+    expect(whole.daily).toEqual(incremental);
+    expect(incremental.some((row) => row.hemisphere === "N")).toBe(true);
   });
 });

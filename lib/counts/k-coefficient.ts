@@ -308,10 +308,14 @@ export function estimateNetworkKFromColumns({
   ...options
 }: { columns: NetworkColumns; pilotId: string } & NetworkKOptions): NetworkKResult {
   const { observerIds, observer, day, raw, length } = columns;
+  // Days are whole numbers already (Int32Array): checking the earliest and
+  // the latest checks them all.
+  let firstDay = Number.POSITIVE_INFINITY;
+  let lastDay = Number.NEGATIVE_INFINITY;
   for (let j = 0; j < length; j++) {
     const value = raw[j] as number;
     const index = observer[j] as number;
-    if (!(value >= 0) || !Number.isFinite(value)) {
+    if (!(value >= 0 && value < Number.POSITIVE_INFINITY)) {
       throw new RangeError(
         `estimateNetworkK: raw must be finite and >= 0, got ${value} for ${observerIds[index]}`,
       );
@@ -319,7 +323,13 @@ export function estimateNetworkKFromColumns({
     if (!(index >= 0 && index < observerIds.length)) {
       throw new RangeError(`estimateNetworkK: observer index ${index} is out of range`);
     }
-    toDayNumber(day[j] as number);
+    const dayNumber = day[j] as number;
+    if (dayNumber < firstDay) firstDay = dayNumber;
+    if (dayNumber > lastDay) lastDay = dayNumber;
+  }
+  if (length > 0) {
+    toDayNumber(firstDay);
+    toDayNumber(lastDay);
   }
   const observerIndex = new Map(observerIds.map((id, i) => [id, i]));
   if (observerIndex.size !== observerIds.length)
@@ -737,12 +747,17 @@ function markLinkedToPilot({
   const firstOnDay = new Int32Array(slotCount).fill(-1);
   for (let i = 0; i < observerCount; i++) {
     if (inNetwork[i] !== 1) continue;
+    // Other sets are only ever attached under i's root, so it stays i's root.
+    const root = find(i);
     for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++) {
       if (!((raws[j] as number) > 0)) continue;
       const slot = slots[j] as number;
       const first = firstOnDay[slot] as number;
       if (first < 0) firstOnDay[slot] = i;
-      else parent[find(i)] = find(first);
+      else {
+        const other = find(first);
+        if (other !== root) parent[other] = root;
+      }
     }
   }
   const pilotRoot = find(pilot);

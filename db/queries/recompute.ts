@@ -75,7 +75,7 @@ export type Units = { units: KUnit[]; observerOfUnit: Int32Array; labelOf: (unit
  * keeps the instruments, packs, changes and counts on one snapshot.
  */
 export async function loadAcceptedCounts(): Promise<
-  { counts: AcceptedCounts; packWrites: WriteStep[] } & Units
+  { counts: AcceptedCounts; countOfUnit: Int32Array; packWrites: WriteStep[] } & Units
 > {
   const client = getDb().$client;
   const units: KUnit[] = [];
@@ -149,11 +149,14 @@ export async function loadAcceptedCounts(): Promise<
   }
   await yieldToServer();
   const withCounts: Array<{ unit: number; pack: CountPack }> = [];
+  const countOfUnit = new Int32Array(units.length);
   packOfUnit.forEach((pack, unit) => {
     if (pack) withCounts.push({ unit, pack });
+    countOfUnit[unit] = pack?.count ?? 0;
   });
   return {
     counts: countsFromPacks(withCounts),
+    countOfUnit,
     packWrites: countPackWrites({ rebuilt, dropped, changesUpTo }),
     units,
     observerOfUnit: Int32Array.from(observerOfUnitList),
@@ -175,13 +178,16 @@ export type RecomputeSummary = {
 type Progress = (fraction: number, message: string) => Promise<void> | void;
 
 /** The observer with the most accepted counts: the pilot when none is chosen. */
-function findBusiestObserver({ counts, units }: { counts: AcceptedCounts; units: KUnit[] }): string | null {
-  const perUnit = new Int32Array(units.length);
-  for (let i = 0; i < counts.length; i++)
-    perUnit[counts.unit[i] as number] = (perUnit[counts.unit[i] as number] as number) + 1;
+function findBusiestObserver({
+  countOfUnit,
+  units,
+}: {
+  countOfUnit: Int32Array;
+  units: KUnit[];
+}): string | null {
   const perObserver = new Map<string, number>();
   units.forEach((u, i) =>
-    perObserver.set(u.observerId, (perObserver.get(u.observerId) ?? 0) + (perUnit[i] as number)),
+    perObserver.set(u.observerId, (perObserver.get(u.observerId) ?? 0) + (countOfUnit[i] as number)),
   );
   let best: string | null = null;
   let bestCount = 0;
@@ -225,12 +231,12 @@ export async function runFullRecompute({
   try {
     const settings = given ?? (await getKSettings());
     await onProgress(0.02, "Reading accepted counts");
-    const { counts, packWrites, units, observerOfUnit, labelOf } = await loadAcceptedCounts();
+    const { counts, countOfUnit, packWrites, units, observerOfUnit, labelOf } = await loadAcceptedCounts();
     lap("read");
 
     const notes: string[] = [];
     const fitted = refitK
-      ? await fitAllK({ counts, units, labelOf, settings, notes, onProgress })
+      ? await fitAllK({ counts, countOfUnit, units, labelOf, settings, notes, onProgress })
       : {
           fits: [] as KFit[],
           kOfRow: await resolveStoredK({ counts, units }),
@@ -352,6 +358,7 @@ export async function runFullRecompute({
 /** Fits every unit's k for every period, and the k that scales each count. */
 async function fitAllK({
   counts,
+  countOfUnit,
   units,
   labelOf,
   settings,
@@ -359,6 +366,8 @@ async function fitAllK({
   onProgress,
 }: {
   counts: AcceptedCounts;
+  /** Accepted counts of each unit. */
+  countOfUnit: Int32Array;
   units: KUnit[];
   labelOf: (unit: number) => string;
   settings: KSettings;
@@ -373,7 +382,7 @@ async function fitAllK({
   let reference: KReference;
   let referenceLabel: (role: KFit["role"]) => string;
   if (settings.referenceSeriesId === NETWORK_REFERENCE) {
-    const pilotObserverId = settings.pilotObserverId ?? findBusiestObserver({ counts, units });
+    const pilotObserverId = settings.pilotObserverId ?? findBusiestObserver({ countOfUnit, units });
     reference = { kind: "network", pilotObserverId, pilotK: settings.pilotK };
     referenceLabel = (role) =>
       role === "pilot"

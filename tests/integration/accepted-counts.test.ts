@@ -99,7 +99,7 @@ describe("loadAcceptedCounts", () => {
   });
 
   it("decodes every accepted count exactly as stored, in day order", async () => {
-    const { counts, units } = await loadAcceptedCounts();
+    const { counts, units, countOfUnit } = await loadAcceptedCounts();
     const read = Array.from({ length: counts.length }, (_, i) => ({
       day: counts.dayNumber[i]!,
       instrumentId: units[counts.unit[i]!]!.instrumentId,
@@ -130,6 +130,10 @@ describe("loadAcceptedCounts", () => {
       a.day - b.day || a.instrumentId.localeCompare(b.instrumentId) || a.raw - b.raw;
     expect([...read].sort(byKey)).toEqual([...expected].sort(byKey));
     expect(read).toHaveLength(9);
+    // Each unit's number of accepted counts, as the pilot choice uses it.
+    expect([...countOfUnit]).toEqual(
+      units.map((unit) => expected.filter((row) => row.instrumentId === unit.instrumentId).length),
+    );
 
     // Day order, as the k fit and the series need it.
     for (let i = 1; i < counts.length; i++)

@@ -4,6 +4,7 @@ import { formatDayNumber } from "@/lib/counts/series";
 import { makeOrderedIdMaker } from "@/lib/ids/ordered-ids";
 import { countsFromPacks, sliceByKey, type AcceptedCounts } from "@/lib/series/accepted-counts";
 import { packsFromPackedText, type CountPack } from "@/lib/series/count-packs";
+import { fitAllPeriods, type KFitReference } from "@/lib/series/k-fit-helper";
 import {
   buildKLookup,
   buildStoredKResolver,
@@ -173,6 +174,8 @@ export type RecomputeSummary = {
   months: number;
   notes: string[];
   timingsMs: Record<string, number>;
+  /** Threads the k fit ran on (1 until the helper thread is ready, or without it). */
+  kFitThreads: 1 | 2;
 };
 
 type Progress = (fraction: number, message: string) => Promise<void> | void;
@@ -214,11 +217,14 @@ export async function runFullRecompute({
   onProgress = () => undefined,
   settings: given,
   refitK = true,
+  threads = 2,
 }: {
   onProgress?: Progress;
   settings?: KSettings;
   /** false: keep the stored k coefficients and rebuild only the series from them. */
   refitK?: boolean;
+  /** 2: fit the periods on this thread and the k-fit helper thread (lib/series/k-fit-helper.ts) once it is ready. */
+  threads?: 1 | 2;
 } = {}): Promise<RecomputeSummary> {
   const timingsMs: Record<string, number> = {};
   let mark = performance.now();
@@ -236,12 +242,13 @@ export async function runFullRecompute({
 
     const notes: string[] = [];
     const fitted = refitK
-      ? await fitAllK({ counts, countOfUnit, units, labelOf, settings, notes, onProgress })
+      ? await fitAllK({ counts, countOfUnit, units, labelOf, settings, notes, onProgress, threads })
       : {
           fits: [] as KFit[],
           kOfRow: await resolveStoredK({ counts, units }),
           periods: 0,
           referenceLabel: () => "",
+          threads: 1 as const,
         };
     lap("k");
 
@@ -355,6 +362,7 @@ export async function runFullRecompute({
       months: series.monthly.filter((m) => m.hemisphere === "all").length,
       notes,
       timingsMs,
+      kFitThreads: fitted.threads,
     };
   } finally {
     dirty.stop();
@@ -370,6 +378,7 @@ async function fitAllK({
   settings,
   notes,
   onProgress,
+  threads,
 }: {
   counts: AcceptedCounts;
   /** Accepted counts of each unit. */
@@ -379,17 +388,21 @@ async function fitAllK({
   settings: KSettings;
   notes: string[];
   onProgress: Progress;
+  threads: 1 | 2;
 }): Promise<{
   fits: KFit[];
   kOfRow: Float64Array;
   periods: number;
   referenceLabel: (role: KFit["role"]) => string;
+  threads: 1 | 2;
 }> {
-  let reference: KReference;
+  // The same reference in two forms: for this thread, and for the helper thread.
+  let kReference: KReference;
+  let reference: KFitReference;
   let referenceLabel: (role: KFit["role"]) => string;
   if (settings.referenceSeriesId === NETWORK_REFERENCE) {
     const pilotObserverId = settings.pilotObserverId ?? findBusiestObserver({ countOfUnit, units });
-    reference = { kind: "network", pilotObserverId, pilotK: settings.pilotK };
+    reference = kReference = { kind: "network", pilotObserverId, pilotK: settings.pilotK };
     referenceLabel = (role) =>
       role === "pilot"
         ? K_REFERENCE.pilot
@@ -401,11 +414,32 @@ async function fitAllK({
     if (!series)
       throw new Error("The chosen reference series no longer exists; choose another in the k settings.");
     const values = await loadReferenceValues({ seriesId: series.id });
-    reference = { kind: "series", valueOfDay: (dayNumber) => values.get(dayNumber) };
+    reference = { kind: "series", values };
+    kReference = { kind: "series", valueOfDay: (dayNumber) => values.get(dayNumber) };
     referenceLabel = () => K_REFERENCE.series(series.id);
   }
   await onProgress(0.15, "Fitting k coefficients");
   const periods = sliceByKey({ counts, keyOf: (day) => findPeriodIndex({ day, kind: settings.periodKind }) });
+  let lastReported = performance.now();
+  const fitted = await fitAllPeriods({
+    counts,
+    units,
+    periods,
+    method: settings.method,
+    minCommonDays: settings.minCommonDays,
+    reference,
+    threads,
+    betweenPeriods: async (position) => {
+      if (performance.now() - lastReported > 250) {
+        const label = describePeriod({ index: periods[position]!.key, kind: settings.periodKind }).label;
+        await onProgress(0.15 + (0.6 * (position + 1)) / periods.length, `Fitting k coefficients (${label})`);
+        lastReported = performance.now();
+      } else {
+        await yieldToServer();
+      }
+    },
+  });
+  const results = fitted.results;
   const fitPeriod = (period: (typeof periods)[number], anchorK: Float64Array) =>
     fitPeriodK({
       counts,
@@ -415,24 +449,9 @@ async function fitAllK({
       periodIndex: period.key,
       method: settings.method,
       minCommonDays: settings.minCommonDays,
-      reference,
+      reference: kReference,
       anchorK,
     });
-  const results: Array<ReturnType<typeof fitPeriod>> = [];
-  const anchorK = new Float64Array(units.length).fill(Number.NaN);
-  let lastReported = performance.now();
-  for (const [position, period] of periods.entries()) {
-    const result = fitPeriod(period, anchorK);
-    results.push(result);
-    for (const fit of result.fits) anchorK[fit.unit] = fit.k;
-    if (performance.now() - lastReported > 250) {
-      const label = describePeriod({ index: period.key, kind: settings.periodKind }).label;
-      await onProgress(0.15 + (0.6 * (position + 1)) / periods.length, `Fitting k coefficients (${label})`);
-      lastReported = performance.now();
-    } else {
-      await yieldToServer();
-    }
-  }
   // A stand-in with no earlier k (the pilot joined later than others) was
   // held at the pilot's k, an arbitrary scale. Fit those periods again,
   // latest first, with the stand-in held at its k of the nearest later
@@ -467,7 +486,7 @@ async function fitAllK({
     for (let unit = 0; unit < units.length; unit++) kOfUnit[unit] = kOf(unit, period.key);
     for (let i = period.from; i < period.to; i++) kOfRow[i] = kOfUnit[counts.unit[i] as number] as number;
   }
-  return { fits, kOfRow, periods: periods.length, referenceLabel };
+  return { fits, kOfRow, periods: periods.length, referenceLabel, threads: fitted.threads };
 }
 
 /** The k of every count from the stored coefficients (no refit). */

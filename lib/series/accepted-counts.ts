@@ -23,14 +23,21 @@ export type AcceptedCounts = {
   southRaw: Int32Array;
 };
 
-export function createAcceptedCounts(capacity: number): AcceptedCounts {
+/**
+ * Empty arrays for `capacity` counts; `shared: true` puts them in shared
+ * memory, so a worker thread can read them without a copy
+ * (lib/series/k-fit-helper.ts).
+ */
+export function createAcceptedCounts(capacity: number, { shared = false } = {}): AcceptedCounts {
+  const column = () =>
+    shared ? new Int32Array(new SharedArrayBuffer(4 * capacity)) : new Int32Array(capacity);
   return {
     length: 0,
-    dayNumber: new Int32Array(capacity),
-    unit: new Int32Array(capacity),
-    raw: new Int32Array(capacity),
-    northRaw: new Int32Array(capacity),
-    southRaw: new Int32Array(capacity),
+    dayNumber: column(),
+    unit: column(),
+    raw: column(),
+    northRaw: column(),
+    southRaw: column(),
   };
 }
 
@@ -66,7 +73,8 @@ export function appendCount(
  * one set of arrays in day order; within a day, in the order the units are
  * given. A counting sort: one pass counts the rows of each day, a second
  * puts each row straight into its place (linear in the rows plus the span
- * of days, no intermediate copy).
+ * of days, no intermediate copy). The arrays are in shared memory, for the
+ * k-fit helper thread.
  */
 export function countsFromPacks(units: ReadonlyArray<{ unit: number; pack: CountPack }>): AcceptedCounts {
   let total = 0;
@@ -81,7 +89,7 @@ export function countsFromPacks(units: ReadonlyArray<{ unit: number; pack: Count
       if (day > last) last = day;
     }
   }
-  const counts = createAcceptedCounts(total);
+  const counts = createAcceptedCounts(total, { shared: true });
   counts.length = total;
   if (total === 0) return counts;
 

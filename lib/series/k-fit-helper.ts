@@ -1,0 +1,224 @@
+/**
+ * Fitting every period's k on two threads: the server's own and one helper
+ * thread (lib/series/k-fit-worker.ts) kept for the life of the process.
+ *
+ * Periods are independent of each other except through a stand-in pilot's
+ * anchor (fitPeriodK): a period whose pilot is present gives the same fit
+ * whatever the other periods gave. So the helper takes every other period,
+ * both threads fit at once, and then, in period order, each period whose
+ * pilot was missing is fitted again with the anchors a fit in order would
+ * have had. The results are those of fitting every period in order on one
+ * thread, to the bit (the same code on the same numbers).
+ *
+ * The counts go to the helper in shared memory (countsFromPacks allocates
+ * them so), without a copy. The helper runs this project's TypeScript
+ * source through tsx, a dependency the server already runs under; it is
+ * started the first time it is wanted and used once it has said it is
+ * ready, so no fit ever waits for it to start. If it cannot start or fails,
+ * everything is fitted on the server's thread, as before.
+ */
+import path from "node:path";
+import { pathToFileURL } from "node:url";
+import { Worker } from "node:worker_threads";
+
+import type { KMethod } from "@/lib/counts/k-coefficient";
+
+import type { AcceptedCounts } from "./accepted-counts";
+import { fitPeriodK, type KReference, type KUnit, type PeriodKResult } from "./k-fit";
+
+/** A reference the helper can be sent: the series as its values, not as a function. */
+export type KFitReference =
+  Extract<KReference, { kind: "network" }> | { kind: "series"; values: Map<number, number> };
+
+export type KFitPeriod = { key: number; from: number; to: number };
+
+export type KFitJob = {
+  id: number;
+  counts: AcceptedCounts;
+  units: KUnit[];
+  periods: KFitPeriod[];
+  method: KMethod;
+  minCommonDays: number;
+  reference: KFitReference;
+};
+
+export type KFitReply =
+  { ready: true } | { id: number; results: PeriodKResult[] } | { id: number; error: string };
+
+type Pending = { resolve: (results: PeriodKResult[]) => void; reject: (error: Error) => void };
+type Helper = {
+  worker: Worker | null;
+  ready: boolean;
+  failed: boolean;
+  nextId: number;
+  pending: Map<number, Pending>;
+  waiters: Array<(ready: boolean) => void>;
+};
+
+// On globalThis: Next's dev server reloads modules, and one helper per process is enough.
+const slot = globalThis as unknown as { __heliotallyKFitHelper?: Helper };
+
+function getHelper(): Helper {
+  return (slot.__heliotallyKFitHelper ??= {
+    worker: null,
+    ready: false,
+    failed: false,
+    nextId: 1,
+    pending: new Map(),
+    waiters: [],
+  });
+}
+
+function startHelper(helper: Helper): void {
+  if (helper.worker || helper.failed) return;
+  try {
+    const entry = pathToFileURL(
+      path.join(/*turbopackIgnore: true*/ process.cwd(), "lib", "series", "k-fit-worker.ts"),
+    ).href;
+    // The code is a value, not a literal, so bundlers leave this worker alone.
+    const bootstrap = [
+      `import("tsx/esm/api")`,
+      `.then(({ register }) => { register(); return import(${JSON.stringify(entry)}); })`,
+    ].join("");
+    const worker = new Worker(bootstrap, { eval: true, execArgv: [] });
+    helper.worker = worker;
+    worker.on("message", (reply: KFitReply) => {
+      // Held open only while a job is out (receiving a message refs it again).
+      if (helper.pending.size <= ("ready" in reply ? 0 : 1)) worker.unref();
+      if ("ready" in reply) {
+        helper.ready = true;
+        for (const waiter of helper.waiters.splice(0)) waiter(true);
+        return;
+      }
+      const pending = helper.pending.get(reply.id);
+      helper.pending.delete(reply.id);
+      if ("error" in reply) pending?.reject(new Error(reply.error));
+      else pending?.resolve(reply.results);
+    });
+    worker.on("error", (error) => stopHelper(helper, error));
+    worker.on("exit", (code) =>
+      stopHelper(helper, new Error(`The k-fit helper stopped (exit code ${code})`)),
+    );
+  } catch (error) {
+    stopHelper(helper, error instanceof Error ? error : new Error(String(error)));
+  }
+}
+
+function stopHelper(helper: Helper, error: Error): void {
+  if (helper.failed) return;
+  helper.failed = true;
+  helper.ready = false;
+  if (helper.worker) void helper.worker.terminate();
+  helper.worker = null;
+  for (const pending of helper.pending.values()) pending.reject(error);
+  helper.pending.clear();
+  for (const waiter of helper.waiters.splice(0)) waiter(false);
+  console.warn(`k coefficients are fitted on one thread: ${error.message}`);
+}
+
+/** Starts the helper if it is not running and resolves once it can take work (false if it cannot). */
+export function whenKFitHelperReady(): Promise<boolean> {
+  const helper = getHelper();
+  startHelper(helper);
+  if (helper.ready || helper.failed) return Promise.resolve(helper.ready);
+  return new Promise((resolve) => helper.waiters.push(resolve));
+}
+
+function sendToHelper(helper: Helper, job: Omit<KFitJob, "id">): Promise<PeriodKResult[]> {
+  const id = helper.nextId++;
+  return new Promise((resolve, reject) => {
+    helper.pending.set(id, { resolve, reject });
+    // A process waiting for the helper's answer must not end meanwhile.
+    helper.worker!.ref();
+    helper.worker!.postMessage({ ...job, id } satisfies KFitJob);
+  });
+}
+
+function toKReference(reference: KFitReference): KReference {
+  if (reference.kind === "network") return reference;
+  const { values } = reference;
+  return { kind: "series", valueOfDay: (day) => values.get(day) };
+}
+
+/**
+ * Every period's fit, as fitting them in order with each period's anchors
+ * taken from the ones before would give. `betweenPeriods` runs after each
+ * period the server's thread fits (to report progress and let other
+ * requests in). `threads: 1` keeps everything on this thread.
+ */
+export async function fitAllPeriods({
+  counts,
+  units,
+  periods,
+  method,
+  minCommonDays,
+  reference,
+  betweenPeriods = () => undefined,
+  threads = 2,
+}: {
+  counts: AcceptedCounts;
+  units: KUnit[];
+  periods: ReadonlyArray<KFitPeriod>;
+  method: KMethod;
+  minCommonDays: number;
+  reference: KFitReference;
+  betweenPeriods?: (position: number) => Promise<void> | void;
+  threads?: 1 | 2;
+}): Promise<{ results: PeriodKResult[]; threads: 1 | 2 }> {
+  const kReference = toKReference(reference);
+  const fit = (period: KFitPeriod, anchorK: Float64Array) =>
+    fitPeriodK({
+      counts,
+      from: period.from,
+      to: period.to,
+      units,
+      periodIndex: period.key,
+      method,
+      minCommonDays,
+      reference: kReference,
+      anchorK,
+    });
+  const results: PeriodKResult[] = [];
+  const anchorK = new Float64Array(units.length).fill(Number.NaN);
+  const keepAnchors = (result: PeriodKResult) => {
+    for (const fitted of result.fits) anchorK[fitted.unit] = fitted.k;
+  };
+
+  const helper = getHelper();
+  if (threads === 2) startHelper(helper);
+  const shared = counts.dayNumber.buffer instanceof SharedArrayBuffer;
+  if (threads === 1 || !helper.ready || !shared || periods.length < 2) {
+    for (const [position, period] of periods.entries()) {
+      results.push(fit(period, anchorK));
+      keepAnchors(results[position]!);
+      await betweenPeriods(position);
+    }
+    return { results, threads: 1 };
+  }
+
+  const helperShare = periods.filter((_, position) => position % 2 === 1);
+  const fromHelper = sendToHelper(helper, {
+    counts,
+    units,
+    periods: helperShare,
+    method,
+    minCommonDays,
+    reference,
+  }).catch(() => null);
+  const noAnchors = new Float64Array(units.length).fill(Number.NaN);
+  for (let position = 0; position < periods.length; position += 2) {
+    results[position] = fit(periods[position]!, noAnchors);
+    await betweenPeriods(position);
+  }
+  const helped = await fromHelper;
+  for (let position = 1; position < periods.length; position += 2) {
+    results[position] = helped?.[(position - 1) / 2] ?? fit(periods[position]!, noAnchors);
+  }
+  // In order: a period whose pilot was missing was fitted without anchors;
+  // fit it again with those of the periods before it.
+  for (const [position, period] of periods.entries()) {
+    if (results[position]!.standIn) results[position] = fit(period, anchorK);
+    keepAnchors(results[position]!);
+  }
+  return { results, threads: helped ? 2 : 1 };
+}

@@ -1,0 +1,77 @@
+/**
+ * The full recompute's k fit on two threads (lib/series/k-fit-helper.ts)
+ * against the same fit on one: the same coefficients, series and notes to
+ * the bit, including periods where the pilot is away and another observer
+ * stands in, held at its k of the period before (or, at the start, of the
+ * period after).
+ */
+import { beforeAll, describe, expect, it } from "vitest";
+
+import { getDb } from "@/db/client";
+import { runFullRecompute } from "@/db/queries/recompute";
+import { formatDayNumber, toDayNumber } from "@/lib/counts/series";
+import { whenKFitHelperReady } from "@/lib/series/k-fit-helper";
+import { DEFAULT_K_SETTINGS } from "@/lib/validation/k-settings";
+
+import { generateSyntheticNetwork, insertNetwork, makeUnits, type Unit } from "./series-support";
+
+let pilot: Unit;
+
+beforeAll(async () => {
+  // Invented: 9 observers over two years; the pilot (obs-000) has no counts
+  // in the first quarter of 2023 nor the third.
+  const network = generateSyntheticNetwork({
+    seed: 23,
+    observerCount: 9,
+    dayCount: 731,
+    firstDayNumber: toDayNumber("2023-01-01"),
+    coverage: 0.6,
+    noise: "poisson",
+  });
+  network.observations = network.observations.filter((o) => {
+    if (o.observerId !== "obs-000") return true;
+    const day = formatDayNumber(o.day);
+    return !(day < "2023-04-01" || (day >= "2023-07-01" && day < "2023-10-01"));
+  });
+  const units = await makeUnits({ ids: network.observerIds });
+  pilot = units.get("obs-000")!;
+  await insertNetwork({ network, units });
+}, 60_000);
+
+async function snapshot() {
+  const client = getDb().$client;
+  const k = await client.execute(
+    `SELECT observer_id, instrument_id, period_start, period_end, k, sigma, common_days, reference
+     FROM k_coefficients ORDER BY instrument_id, period_start`,
+  );
+  const daily = await client.execute(
+    "SELECT day, hemisphere, observers, sum, sum_squares, mean, sd FROM series_daily ORDER BY hemisphere, day",
+  );
+  return { k: k.rows.map((r) => ({ ...r })), daily: daily.rows.map((r) => ({ ...r })) };
+}
+
+describe("the k fit on two threads", () => {
+  it("gives exactly what one thread gives, stand-ins included", async () => {
+    expect(await whenKFitHelperReady()).toBe(true);
+    const settings = {
+      ...DEFAULT_K_SETTINGS,
+      periodKind: "quarter" as const,
+      pilotObserverId: pilot.observerId,
+    };
+
+    const two = await runFullRecompute({ settings, threads: 2 });
+    expect(two.kFitThreads).toBe(2);
+    const fromTwo = await snapshot();
+    const one = await runFullRecompute({ settings, threads: 1 });
+    expect(one.kFitThreads).toBe(1);
+    const fromOne = await snapshot();
+
+    expect(fromTwo).toEqual(fromOne);
+    expect(two.notes).toEqual(one.notes);
+    expect(two.periods).toBe(8);
+    // Both stand-in cases happened: with a neighbouring k, and at the start.
+    expect(fromOne.k.filter((r) => r.reference === "network:stand-in")).toHaveLength(2);
+    expect(two.notes.filter((note) => note.includes("stood in"))).toHaveLength(2);
+    expect(fromOne.k.length).toBeGreaterThan(60);
+  });
+});

@@ -4,7 +4,8 @@
  * counts from 300 observers over 25 years, and a small one of 10,000), then
  * reports:
  *  (a) a full recompute of every k and every series (the first after the
- *      load, which builds the count packs, then later ones), against one
+ *      load, which builds the count packs, then later ones, with the k fit
+ *      on two threads once the helper thread is ready), against one
  *      bare SQL scan averaging 10g + s per day with the same client on the
  *      same table (as the planner runs it, over the table itself, and after
  *      ANALYZE);
@@ -550,6 +551,7 @@ async function main() {
   const firstRun = await timeIt(() => runFullRecompute());
   report("(a) full recompute, yearly k, first after the load (builds the packs)", firstRun.ms);
   for (const [phase, ms] of Object.entries(firstRun.result.timingsMs)) report(`    phase: ${phase}`, ms);
+  report("    k fitted on threads", firstRun.result.kFitThreads, "");
   const recomputes: number[] = [];
   let summary: Awaited<ReturnType<typeof runFullRecompute>> | null = null;
   for (let i = 0; i < 2; i++) {
@@ -560,6 +562,7 @@ async function main() {
   const recomputeMs = Math.min(...recomputes);
   report("(a) full recompute, next two runs back to back (best)", recomputeMs);
   for (const [phase, ms] of Object.entries(summary!.timingsMs)) report(`    phase: ${phase}`, ms);
+  report("    k fitted on threads", summary!.kFitThreads, "");
   const quarterly = await timeIt(() =>
     runFullRecompute({ settings: { ...DEFAULT_K_SETTINGS, periodKind: "quarter" } }),
   );
@@ -580,6 +583,7 @@ async function main() {
   const settledMs = Math.min(...settled);
   report("(a) full recompute after 4 s idle (best of 2)", settledMs);
   for (const [phase, ms] of Object.entries(settledSummary!.timingsMs)) report(`    phase: ${phase}`, ms);
+  report("    k fitted on threads", settledSummary!.kFitThreads, "");
   // How long the server's other requests may wait behind it: the longest
   // stretch the recompute holds the event loop.
   await new Promise((resolve) => setTimeout(resolve, 4_000));

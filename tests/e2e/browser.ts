@@ -1,4 +1,4 @@
-import { mkdirSync, mkdtempSync } from "node:fs";
+import { mkdirSync, mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 
@@ -15,7 +15,8 @@ export function chromiumPath(): string {
  * reaching out to the internet in the background.
  */
 export async function openBrowser(): Promise<BrowserContext> {
-  return chromium.launchPersistentContext(mkdtempSync(path.join(tmpdir(), "heliotally-chromium-")), {
+  const profile = mkdtempSync(path.join(tmpdir(), "heliotally-chromium-"));
+  const context = await chromium.launchPersistentContext(profile, {
     executablePath: chromiumPath(),
     headless: true,
     viewport: { width: 1280, height: 900 },
@@ -29,6 +30,17 @@ export async function openBrowser(): Promise<BrowserContext> {
       "--disable-sync",
     ],
   });
+  // The profile folder goes once the browser has exited (close() waits for that).
+  const close = context.close.bind(context);
+  context.close = async (...args) => {
+    await close(...args);
+    try {
+      rmSync(profile, { recursive: true, force: true, maxRetries: 3 });
+    } catch {
+      // A leftover temporary folder is not worth failing a test for.
+    }
+  };
+  return context;
 }
 
 export async function newPage(context: BrowserContext): Promise<Page> {

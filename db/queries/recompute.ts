@@ -447,10 +447,10 @@ async function fitAllK({
     minCommonDays: settings.minCommonDays,
     reference,
     threads,
-    betweenPeriods: async (position) => {
+    betweenPeriods: async (position, taken) => {
       if (performance.now() - lastReported > 250) {
         const label = describePeriod({ index: periods[position]!.key, kind: settings.periodKind }).label;
-        await onProgress(0.15 + (0.6 * (position + 1)) / periods.length, `Fitting k coefficients (${label})`);
+        await onProgress(0.15 + (0.6 * taken) / periods.length, `Fitting k coefficients (${label})`);
         lastReported = performance.now();
       } else {
         await yieldToServer();

@@ -4,8 +4,8 @@
  *
  * Periods are independent of each other except through a stand-in pilot's
  * anchor (fitPeriodK): a period whose pilot is present gives the same fit
- * whatever the other periods gave. So the helper takes every other period,
- * both threads fit at once, and then, in period order, each period whose
+ * whatever the other periods gave. So both threads fit at once, each taking
+ * the next period not yet taken, and then, in period order, each period whose
  * pilot was missing is fitted again with the anchors a fit in order would
  * have had. The results are those of fitting every period in order on one
  * thread, to the bit (the same code on the same numbers).
@@ -36,16 +36,20 @@ export type KFitJob = {
   id: number;
   counts: AcceptedCounts;
   units: KUnit[];
-  periods: KFitPeriod[];
+  periods: ReadonlyArray<KFitPeriod>;
+  /** Positions of `periods` in the order to take them. */
+  order: Int32Array;
+  /** Shared: how many entries of `order` have been taken (by either thread). */
+  next: Int32Array;
   method: KMethod;
   minCommonDays: number;
   reference: KFitReference;
 };
 
-export type KFitReply =
-  { ready: true } | { id: number; results: PeriodKResult[] } | { id: number; error: string };
+type Fitted = Array<{ position: number; result: PeriodKResult }>;
 
-type Pending = { resolve: (results: PeriodKResult[]) => void; reject: (error: Error) => void };
+export type KFitReply = { ready: true } | { id: number; results: Fitted } | { id: number; error: string };
+type Pending = { resolve: (results: Fitted) => void; reject: (error: Error) => void };
 type Helper = {
   worker: Worker | null;
   ready: boolean;
@@ -124,7 +128,7 @@ export function whenKFitHelperReady(): Promise<boolean> {
   return new Promise((resolve) => helper.waiters.push(resolve));
 }
 
-function sendToHelper(helper: Helper, job: Omit<KFitJob, "id">): Promise<PeriodKResult[]> {
+function sendToHelper(helper: Helper, job: Omit<KFitJob, "id">): Promise<Fitted> {
   const id = helper.nextId++;
   return new Promise((resolve, reject) => {
     helper.pending.set(id, { resolve, reject });
@@ -162,9 +166,14 @@ export async function fitAllPeriods({
   method: KMethod;
   minCommonDays: number;
   reference: KFitReference;
-  betweenPeriods?: (position: number) => Promise<void> | void;
+  /** `taken`: how many periods the two threads have taken so far, for progress. */
+  betweenPeriods?: (position: number, taken: number) => Promise<void> | void;
   threads?: 1 | 2;
-}): Promise<{ results: PeriodKResult[]; threads: 1 | 2 }> {
+}): Promise<{
+  results: PeriodKResult[];
+  /** 2 when the helper fitted at least one period. */
+  threads: 1 | 2;
+}> {
   const kReference = toKReference(reference);
   const fit = (period: KFitPeriod, anchorK: Float64Array) =>
     fitPeriodK({
@@ -191,34 +200,44 @@ export async function fitAllPeriods({
     for (const [position, period] of periods.entries()) {
       results.push(fit(period, anchorK));
       keepAnchors(results[position]!);
-      await betweenPeriods(position);
+      await betweenPeriods(position, position + 1);
     }
     return { results, threads: 1 };
   }
 
-  const helperShare = periods.filter((_, position) => position % 2 === 1);
+  // Both threads take the next period not yet taken, the largest first, so
+  // neither waits long for the other at the end.
+  const order = Int32Array.from(periods.keys()).sort(
+    (a, b) => periods[b]!.to - periods[b]!.from - (periods[a]!.to - periods[a]!.from) || a - b,
+  );
+  const next = new Int32Array(new SharedArrayBuffer(4));
   const fromHelper = sendToHelper(helper, {
     counts,
     units,
-    periods: helperShare,
+    periods,
+    order,
+    next,
     method,
     minCommonDays,
     reference,
   }).catch(() => null);
   const noAnchors = new Float64Array(units.length).fill(Number.NaN);
-  for (let position = 0; position < periods.length; position += 2) {
+  for (;;) {
+    const taken = Atomics.add(next, 0, 1);
+    if (taken >= periods.length) break;
+    const position = order[taken]!;
     results[position] = fit(periods[position]!, noAnchors);
-    await betweenPeriods(position);
+    await betweenPeriods(position, Math.min(taken + 1, periods.length));
   }
   const helped = await fromHelper;
-  for (let position = 1; position < periods.length; position += 2) {
-    results[position] = helped?.[(position - 1) / 2] ?? fit(periods[position]!, noAnchors);
-  }
+  for (const { position, result } of helped ?? []) results[position] = result;
+  // Periods the helper took but did not return (it failed) are fitted here.
+  for (const [position, period] of periods.entries()) results[position] ??= fit(period, noAnchors);
   // In order: a period whose pilot was missing was fitted without anchors;
   // fit it again with those of the periods before it.
   for (const [position, period] of periods.entries()) {
     if (results[position]!.standIn) results[position] = fit(period, anchorK);
     keepAnchors(results[position]!);
   }
-  return { results, threads: helped ? 2 : 1 };
+  return { results, threads: helped?.length ? 2 : 1 };
 }

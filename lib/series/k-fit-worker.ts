@@ -1,12 +1,12 @@
 /**
- * The k-fit helper thread (started by lib/series/k-fit-helper.ts): fits the
- * periods it is sent with fitPeriodK, the same code the server's own thread
- * runs, and sends the results back. The counts arrive in shared memory, so
+ * The k-fit helper thread (started by lib/series/k-fit-helper.ts): takes
+ * periods one at a time from those it is sent, as the server's own thread
+ * does, fits them with fitPeriodK, the same code, and sends the results back. The counts arrive in shared memory, so
  * nothing is copied but the few hundred units and the fits.
  */
 import { parentPort } from "node:worker_threads";
 
-import { fitPeriodK } from "./k-fit";
+import { fitPeriodK, type PeriodKResult } from "./k-fit";
 import type { KFitJob, KFitReply } from "./k-fit-helper";
 
 const port = parentPort;
@@ -25,19 +25,27 @@ port.on("message", (job: KFitJob) => {
     // No anchors: a period whose pilot is missing is fitted again, in order,
     // on the server's thread (see fitAllPeriods).
     const anchorK = new Float64Array(job.units.length).fill(Number.NaN);
-    const results = job.periods.map((period) =>
-      fitPeriodK({
-        counts: job.counts,
-        from: period.from,
-        to: period.to,
-        units: job.units,
-        periodIndex: period.key,
-        method: job.method,
-        minCommonDays: job.minCommonDays,
-        reference,
-        anchorK,
-      }),
-    );
+    const results: Array<{ position: number; result: PeriodKResult }> = [];
+    for (;;) {
+      const taken = Atomics.add(job.next, 0, 1);
+      if (taken >= job.periods.length) break;
+      const position = job.order[taken]!;
+      const period = job.periods[position]!;
+      results.push({
+        position,
+        result: fitPeriodK({
+          counts: job.counts,
+          from: period.from,
+          to: period.to,
+          units: job.units,
+          periodIndex: period.key,
+          method: job.method,
+          minCommonDays: job.minCommonDays,
+          reference,
+          anchorK,
+        }),
+      });
+    }
     reply = { id: job.id, results };
   } catch (error) {
     reply = { id: job.id, error: error instanceof Error ? error.message : String(error) };

@@ -8,9 +8,11 @@
 import { beforeAll, describe, expect, it } from "vitest";
 
 import { getDb } from "@/db/client";
-import { runFullRecompute } from "@/db/queries/recompute";
+import { loadAcceptedCounts, runFullRecompute } from "@/db/queries/recompute";
 import { formatDayNumber, toDayNumber } from "@/lib/counts/series";
-import { whenKFitHelperReady } from "@/lib/series/k-fit-helper";
+import { sliceByKey } from "@/lib/series/accepted-counts";
+import { fitAllPeriods, whenKFitHelperReady } from "@/lib/series/k-fit-helper";
+import { findPeriodIndex } from "@/lib/series/periods";
 import { DEFAULT_K_SETTINGS } from "@/lib/validation/k-settings";
 
 import { generateSyntheticNetwork, insertNetwork, makeUnits, type Unit } from "./series-support";
@@ -59,8 +61,9 @@ describe("the k fit on two threads", () => {
       pilotObserverId: pilot.observerId,
     };
 
+    // Small periods: this thread may take them all before the helper takes
+    // one (the test below makes sure the helper works).
     const two = await runFullRecompute({ settings, threads: 2 });
-    expect(two.kFitThreads).toBe(2);
     const fromTwo = await snapshot();
     const one = await runFullRecompute({ settings, threads: 1 });
     expect(one.kFitThreads).toBe(1);
@@ -73,5 +76,35 @@ describe("the k fit on two threads", () => {
     expect(fromOne.k.filter((r) => r.reference === "network:stand-in")).toHaveLength(2);
     expect(two.notes.filter((note) => note.includes("stood in"))).toHaveLength(2);
     expect(fromOne.k.length).toBeGreaterThan(60);
+  });
+
+  it("shares the periods between the threads and gives the same fits", async () => {
+    expect(await whenKFitHelperReady()).toBe(true);
+    const { counts, units } = await loadAcceptedCounts();
+    const periods = sliceByKey({ counts, keyOf: (day) => findPeriodIndex({ day, kind: "quarter" }) });
+    const job = {
+      counts,
+      units,
+      periods,
+      method: "ratio-of-sums" as const,
+      minCommonDays: 20,
+      reference: { kind: "network" as const, pilotObserverId: pilot.observerId, pilotK: 1 },
+    };
+    const taken: number[] = [];
+    // This thread pauses after each period, so the helper surely takes some.
+    const shared = await fitAllPeriods({
+      ...job,
+      betweenPeriods: async (position) => {
+        taken.push(position);
+        await new Promise((resolve) => setTimeout(resolve, 40));
+      },
+    });
+    expect(shared.threads).toBe(2);
+    expect(taken.length).toBeGreaterThan(0);
+    expect(taken.length).toBeLessThan(periods.length);
+    const alone = await fitAllPeriods({ ...job, threads: 1 });
+    expect(alone.threads).toBe(1);
+    expect(shared.results).toEqual(alone.results);
+    expect(shared.results.filter((result) => result.standIn)).toHaveLength(2);
   });
 });

@@ -4,7 +4,7 @@
  * are accepted one decision at a time, the count is saved, and the photo is
  * uploaded through the SDK to the local photo store that serve.ts started.
  */
-import { mkdtempSync, writeFileSync } from "node:fs";
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 
@@ -27,9 +27,10 @@ describe("an observer logs a count with a disk photo and accepts the proposed ma
   let browser: BrowserContext;
   let photoPath: string;
   let notAPhotoPath: string;
+  let folder: string;
 
   beforeAll(async () => {
-    const folder = mkdtempSync(path.join(tmpdir(), "heliotally-photo-e2e-"));
+    folder = mkdtempSync(path.join(tmpdir(), "heliotally-photo-e2e-"));
     const gray = makeSyntheticDisk({
       width: 1600,
       height: 1200,
@@ -50,6 +51,7 @@ describe("an observer logs a count with a disk photo and accepts the proposed ma
   });
   afterAll(async () => {
     await browser.close();
+    rmSync(folder, { recursive: true, force: true });
   });
 
   it("refuses a text file renamed .jpg beside the field", async () => {

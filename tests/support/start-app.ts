@@ -6,7 +6,7 @@
  * way. It does not build: callers make .next first with buildIfStale.
  */
 import { spawn, spawnSync } from "node:child_process";
-import { existsSync, mkdtempSync, readdirSync, statSync } from "node:fs";
+import { existsSync, mkdtempSync, readdirSync, rmSync, statSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 
@@ -122,6 +122,8 @@ export async function startBuiltApp({
         child.kill("SIGTERM");
         await new Promise((r) => child.once("exit", r));
       }
+      // The run's temporary folder (its database, unless one was given, and its photos).
+      rmSync(folder, { recursive: true, force: true, maxRetries: 3 });
     },
   };
 }

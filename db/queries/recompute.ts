@@ -5,14 +5,7 @@ import { makeOrderedIdMaker } from "@/lib/ids/ordered-ids";
 import { countsFromPacks, sliceByKey, type AcceptedCounts } from "@/lib/series/accepted-counts";
 import { packsFromPackedText, type CountPack } from "@/lib/series/count-packs";
 import { fitAllPeriods, type KFitReference } from "@/lib/series/k-fit-helper";
-import {
-  buildKLookup,
-  buildStoredKResolver,
-  fitPeriodK,
-  type KFit,
-  type KReference,
-  type KUnit,
-} from "@/lib/series/k-fit";
+import { buildKLookup, buildStoredKResolver, type KFit, type KUnit } from "@/lib/series/k-fit";
 import {
   appendDailyRows,
   seriesFromDaily,
@@ -414,13 +407,11 @@ async function fitAllK({
   referenceLabel: (role: KFit["role"]) => string;
   threads: 1 | 2;
 }> {
-  // The same reference in two forms: for this thread, and for the helper thread.
-  let kReference: KReference;
   let reference: KFitReference;
   let referenceLabel: (role: KFit["role"]) => string;
   if (settings.referenceSeriesId === NETWORK_REFERENCE) {
     const pilotObserverId = settings.pilotObserverId ?? findBusiestObserver({ countOfUnit, units });
-    reference = kReference = { kind: "network", pilotObserverId, pilotK: settings.pilotK };
+    reference = { kind: "network", pilotObserverId, pilotK: settings.pilotK };
     referenceLabel = (role) =>
       role === "pilot"
         ? K_REFERENCE.pilot
@@ -431,9 +422,7 @@ async function fitAllK({
     const series = await getReferenceSeries({ seriesId: settings.referenceSeriesId });
     if (!series)
       throw new Error("The chosen reference series no longer exists; choose another in the k settings.");
-    const values = await loadReferenceValues({ seriesId: series.id });
-    reference = { kind: "series", values };
-    kReference = { kind: "series", valueOfDay: (dayNumber) => values.get(dayNumber) };
+    reference = { kind: "series", values: await loadReferenceValues({ seriesId: series.id }) };
     referenceLabel = () => K_REFERENCE.series(series.id);
   }
   await onProgress(0.15, "Fitting k coefficients");
@@ -458,31 +447,6 @@ async function fitAllK({
     },
   });
   const results = fitted.results;
-  const fitPeriod = (period: (typeof periods)[number], anchorK: Float64Array) =>
-    fitPeriodK({
-      counts,
-      from: period.from,
-      to: period.to,
-      units,
-      periodIndex: period.key,
-      method: settings.method,
-      minCommonDays: settings.minCommonDays,
-      reference: kReference,
-      anchorK,
-    });
-  // A stand-in with no earlier k (the pilot joined later than others) was
-  // held at the pilot's k, an arbitrary scale. Fit those periods again,
-  // latest first, with the stand-in held at its k of the nearest later
-  // period, so the whole series shares the pilot's scale.
-  const laterK = new Float64Array(units.length).fill(Number.NaN);
-  for (let position = periods.length - 1; position >= 0; position--) {
-    const result = results[position]!;
-    if (result.standIn && !result.standIn.anchored && laterK.some(Number.isFinite)) {
-      results[position] = fitPeriod(periods[position]!, laterK);
-      await yieldToServer();
-    }
-    for (const fit of results[position]!.fits) laterK[fit.unit] = fit.k;
-  }
   const fits: KFit[] = [];
   for (const [position, result] of results.entries()) {
     fits.push(...result.fits);

@@ -146,7 +146,8 @@ function toKReference(reference: KFitReference): KReference {
 
 /**
  * Every period's fit, as fitting them in order with each period's anchors
- * taken from the ones before would give. `betweenPeriods` runs after each
+ * taken from the ones before would give, then the periods whose stand-in
+ * had no earlier k fitted again against later ones (anchorToLaterPeriods). `betweenPeriods` runs after each
  * period the server's thread fits (to report progress and let other
  * requests in). `threads: 1` keeps everything on this thread.
  */
@@ -202,6 +203,7 @@ export async function fitAllPeriods({
       keepAnchors(results[position]!);
       await betweenPeriods(position, position + 1);
     }
+    await anchorToLaterPeriods({ results, periods, fit, unitCount: units.length, betweenPeriods });
     return { results, threads: 1 };
   }
 
@@ -239,5 +241,36 @@ export async function fitAllPeriods({
     if (results[position]!.standIn) results[position] = fit(period, anchorK);
     keepAnchors(results[position]!);
   }
+  await anchorToLaterPeriods({ results, periods, fit, unitCount: units.length, betweenPeriods });
   return { results, threads: helped?.length ? 2 : 1 };
+}
+
+/**
+ * A stand-in with no earlier k (the pilot joined later than others) was
+ * held at the pilot's k, an arbitrary scale. Fit those periods again,
+ * latest first, with the stand-in held at its k of the nearest later
+ * period, so the whole series shares the pilot's scale.
+ */
+async function anchorToLaterPeriods({
+  results,
+  periods,
+  fit,
+  unitCount,
+  betweenPeriods,
+}: {
+  results: PeriodKResult[];
+  periods: ReadonlyArray<KFitPeriod>;
+  fit: (period: KFitPeriod, anchorK: Float64Array) => PeriodKResult;
+  unitCount: number;
+  betweenPeriods: (position: number, taken: number) => Promise<void> | void;
+}): Promise<void> {
+  const laterK = new Float64Array(unitCount).fill(Number.NaN);
+  for (let position = periods.length - 1; position >= 0; position--) {
+    const result = results[position]!;
+    if (result.standIn && !result.standIn.anchored && laterK.some(Number.isFinite)) {
+      results[position] = fit(periods[position]!, laterK);
+      await betweenPeriods(position, periods.length);
+    }
+    for (const fitted of results[position]!.fits) laterK[fitted.unit] = fitted.k;
+  }
 }

@@ -75,6 +75,17 @@ describe("the k fit on two threads", () => {
     // Both stand-in cases happened: with a neighbouring k, and at the start.
     expect(fromOne.k.filter((r) => r.reference === "network:stand-in")).toHaveLength(2);
     expect(two.notes.filter((note) => note.includes("stood in"))).toHaveLength(2);
+    // Each stand-in is held at its own k of the second quarter: the first
+    // quarter's, which has no period before it, at the nearest later one.
+    const standIns = fromOne.k.filter((r) => r.reference === "network:stand-in");
+    expect(standIns.map((r) => r.period_start).sort()).toEqual(["2023-01-01", "2023-07-01"]);
+    for (const row of standIns) {
+      const secondQuarter = fromOne.k.find(
+        (r) => r.instrument_id === row.instrument_id && r.period_start === "2023-04-01",
+      );
+      expect(row.k).toBe(secondQuarter?.k);
+    }
+    expect(two.notes.every((note) => !note.includes("no neighbouring k"))).toBe(true);
     expect(fromOne.k.length).toBeGreaterThan(60);
   });
 

@@ -138,18 +138,47 @@ function sendToHelper(helper: Helper, job: Omit<KFitJob, "id">): Promise<Fitted>
   });
 }
 
-function toKReference(reference: KFitReference): KReference {
-  if (reference.kind === "network") return reference;
-  const { values } = reference;
-  return { kind: "series", valueOfDay: (day) => values.get(day) };
+/** fitPeriodK for one period of `counts`, with everything but the period and the anchors fixed; both threads use it. */
+export function makePeriodFitter({
+  counts,
+  units,
+  method,
+  minCommonDays,
+  reference,
+}: {
+  counts: AcceptedCounts;
+  units: KUnit[];
+  method: KMethod;
+  minCommonDays: number;
+  reference: KFitReference;
+}): (period: KFitPeriod, anchorK: Float64Array) => PeriodKResult {
+  let kReference: KReference;
+  if (reference.kind === "network") kReference = reference;
+  else {
+    const { values } = reference;
+    kReference = { kind: "series", valueOfDay: (day) => values.get(day) };
+  }
+  return (period, anchorK) =>
+    fitPeriodK({
+      counts,
+      from: period.from,
+      to: period.to,
+      units,
+      periodIndex: period.key,
+      method,
+      minCommonDays,
+      reference: kReference,
+      anchorK,
+    });
 }
 
 /**
  * Every period's fit, as fitting them in order with each period's anchors
- * taken from the ones before would give, then the periods whose stand-in
- * had no earlier k fitted again against later ones (anchorToLaterPeriods). `betweenPeriods` runs after each
- * period the server's thread fits (to report progress and let other
- * requests in). `threads: 1` keeps everything on this thread.
+ * taken from the ones before would give; then the periods whose stand-in
+ * had no earlier k are fitted again against later ones
+ * (anchorToLaterPeriods). `betweenPeriods` runs after each period the
+ * server's thread fits (to report progress and let other requests in).
+ * `threads: 1` keeps everything on this thread.
  */
 export async function fitAllPeriods({
   counts,
@@ -175,19 +204,7 @@ export async function fitAllPeriods({
   /** 2 when the helper fitted at least one period. */
   threads: 1 | 2;
 }> {
-  const kReference = toKReference(reference);
-  const fit = (period: KFitPeriod, anchorK: Float64Array) =>
-    fitPeriodK({
-      counts,
-      from: period.from,
-      to: period.to,
-      units,
-      periodIndex: period.key,
-      method,
-      minCommonDays,
-      reference: kReference,
-      anchorK,
-    });
+  const fit = makePeriodFitter({ counts, units, method, minCommonDays, reference });
   const results: PeriodKResult[] = [];
   const anchorK = new Float64Array(units.length).fill(Number.NaN);
   const keepAnchors = (result: PeriodKResult) => {

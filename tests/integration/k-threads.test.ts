@@ -117,5 +117,23 @@ describe("the k fit on two threads", () => {
     expect(alone.threads).toBe(1);
     expect(shared.results).toEqual(alone.results);
     expect(shared.results.filter((result) => result.standIn)).toHaveLength(2);
+
+    // Against a reference series too (invented values, one per day), which
+    // the helper receives as values rather than as a function.
+    const values = new Map<number, number>();
+    for (let i = 0; i < counts.length; i++)
+      values.set(counts.dayNumber[i]!, 80 + (counts.dayNumber[i]! % 50));
+    const againstSeries = { ...job, reference: { kind: "series" as const, values } };
+    const seriesShared = await fitAllPeriods({
+      ...againstSeries,
+      betweenPeriods: () => new Promise<void>((resolve) => setTimeout(resolve, 40)),
+    });
+    expect(seriesShared.threads).toBe(2);
+    const seriesAlone = await fitAllPeriods({ ...againstSeries, threads: 1 });
+    expect(seriesShared.results).toEqual(seriesAlone.results);
+    expect(seriesAlone.results.flatMap((result) => result.fits).every((f) => f.role === "reference")).toBe(
+      true,
+    );
+    expect(seriesAlone.results.flatMap((result) => result.fits).length).toBeGreaterThan(60);
   });
 });

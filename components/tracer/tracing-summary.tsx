@@ -2,6 +2,8 @@ import Link from "next/link";
 
 import type { StoredGroup, TracingSummaryData } from "@/db/queries/tracings";
 import { formatUt } from "@/lib/format/time";
+
+import { TracingDrawing } from "./tracing-drawing";
 import type { ObservationCounts } from "@/lib/tracer/measure";
 
 function signed(value: number): string {
@@ -28,11 +30,14 @@ export function TracingSummary({
   tracing,
   counts,
   editable,
+  spacing = "mt-6",
 }: {
   observationId: string;
   tracing: TracingSummaryData | null;
   counts: ObservationCounts;
   editable: boolean;
+  /** The section's outer spacing: its own top margin by default, none inside a spaced column. */
+  spacing?: string;
 }) {
   const traceLink = editable ? (
     <Link
@@ -45,7 +50,7 @@ export function TracingSummary({
   if (!tracing) {
     return (
       <section
-        className="mt-6 rounded-lg border border-ink-100 bg-white p-6 text-sm"
+        className={`${spacing} rounded-lg border border-ink-100 bg-white p-6 text-sm`}
         aria-labelledby="tracing-heading"
       >
         <h2 id="tracing-heading" className="text-lg font-semibold text-ink-950">
@@ -64,7 +69,7 @@ export function TracingSummary({
   const differs = keys.some((k) => fromTracing[k] !== counts[k]);
   return (
     <section
-      className="mt-6 rounded-lg border border-ink-100 bg-white p-6 text-sm"
+      className={`@container ${spacing} rounded-lg border border-ink-100 bg-white p-6 text-sm`}
       aria-labelledby="tracing-heading"
     >
       <div className="flex flex-wrap items-baseline justify-between gap-3">
@@ -75,16 +80,22 @@ export function TracingSummary({
           Revision {tracing.revision}, saved {formatUt(tracing.updatedAt)}
         </span>
       </div>
-      <div className="mt-3 grid gap-6 md:grid-cols-[18rem_1fr]">
+      <div className="mt-3 grid gap-6 @3xl:grid-cols-[18rem_1fr]">
         {tracing.hasPng ? (
           // A plain img: the picture comes from our own API with the reader's cookie and changes per revision.
           // eslint-disable-next-line @next/next/no-img-element
           <img
             src={`/api/v1/observations/${observationId}/tracing/png?revision=${tracing.revision}`}
             alt={`Tracing of the disk with ${fromTracing.groups} groups and ${fromTracing.spots} spots`}
-            className="w-full rounded-md border border-ink-100"
+            className="w-full max-w-80 rounded-md border border-ink-100"
             width={288}
             height={288}
+          />
+        ) : tracing.document ? (
+          <TracingDrawing
+            document={tracing.document}
+            label={`Tracing of the disk with ${fromTracing.groups} groups and ${fromTracing.spots} spots, drawn from its saved positions`}
+            className="w-full max-w-80 rounded-md border border-ink-100"
           />
         ) : (
           <p className="text-ink-500">No picture was saved with this tracing.</p>

@@ -18,7 +18,6 @@ import {
   observers,
   photos,
   reviewDecisions,
-  tracings,
   users,
   type FlagReason,
   type ObservationStatus,
@@ -279,29 +278,19 @@ export async function listDecisionsOfObservation({ observationId }: { observatio
     .orderBy(asc(reviewDecisions.createdAt), asc(reviewDecisions.id));
 }
 
-/** The tracing's PNG and any photos of the disk, when the observer kept them. */
-export async function getObservationImages({ observationId }: { observationId: string }) {
-  const db = getDb();
-  const [tracing, photoRows] = await Promise.all([
-    db
-      .select({ png: tracings.png, revision: tracings.revision })
-      .from(tracings)
-      .where(eq(tracings.observationId, observationId))
-      .limit(1),
-    db
-      .select({
-        id: photos.id,
-        url: photos.url,
-        name: photos.name,
-        widthPx: photos.widthPx,
-        heightPx: photos.heightPx,
-      })
-      .from(photos)
-      .where(eq(photos.observationId, observationId))
-      .orderBy(asc(photos.createdAt)),
-  ]);
-  const png = tracing[0]?.png ?? null;
-  return { tracingPng: png && png.length > 0 ? png : null, photos: photoRows };
+/** The photos of the disk the observer kept with an observation. */
+export async function listObservationPhotos({ observationId }: { observationId: string }) {
+  return getDb()
+    .select({
+      id: photos.id,
+      url: photos.url,
+      name: photos.name,
+      widthPx: photos.widthPx,
+      heightPx: photos.heightPx,
+    })
+    .from(photos)
+    .where(eq(photos.observationId, observationId))
+    .orderBy(asc(photos.createdAt));
 }
 
 export type DecidedObservation = {

@@ -4,7 +4,7 @@ import { and, asc, eq, sql } from "drizzle-orm";
 
 import { roleSatisfies, type Role } from "@/lib/auth/roles";
 import type { MeasuredGroup, ObservationCounts } from "@/lib/tracer/measure";
-import type { TracingDocument } from "@/lib/validation/tracing";
+import { tracingDocumentSchema, type TracingDocument } from "@/lib/validation/tracing";
 
 import { getDb } from "../client";
 import {
@@ -261,13 +261,23 @@ export async function getTracingSummary({ observationId }: { observationId: stri
       revision: tracings.revision,
       updatedAt: tracings.updatedAt,
       hasPng: sql<number>`${tracings.png} is not null`,
+      vector: tracings.vector,
     })
     .from(tracings)
     .where(eq(tracings.observationId, observationId))
     .limit(1);
   if (!row) return null;
   const groups = await listGroupsOfObservation({ observationId });
-  return { revision: row.revision, updatedAt: row.updatedAt, hasPng: Boolean(row.hasPng), groups };
+  // Stored tracings were checked when saved; one that no longer reads (an
+  // older format) is simply not drawn.
+  const parsed = tracingDocumentSchema.safeParse(row.vector);
+  return {
+    revision: row.revision,
+    updatedAt: row.updatedAt,
+    hasPng: Boolean(row.hasPng),
+    document: parsed.success ? parsed.data : null,
+    groups,
+  };
 }
 
 export type TracingSummaryData = NonNullable<Awaited<ReturnType<typeof getTracingSummary>>>;

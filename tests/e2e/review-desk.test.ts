@@ -36,6 +36,22 @@ async function findFlaggedCount(): Promise<{ id: string; email: string }> {
   }
 }
 
+/** A count waiting for review that was traced on the disk, with its logged group count. */
+async function findTracedCount(): Promise<{ id: string; groups: number }> {
+  const client = createClient({ url: databaseUrl });
+  try {
+    const result = await client.execute(
+      `select o.id, o.groups from observations o join tracings t on t.observation_id = o.id
+       where o.status = 'submitted' order by o.ut_date desc limit 1`,
+    );
+    const row = result.rows[0];
+    if (!row || typeof row.id !== "string") throw new Error("The demo seed left no traced count to review.");
+    return { id: row.id, groups: Number(row.groups) };
+  } finally {
+    client.close();
+  }
+}
+
 describe("the coordinator queries a flagged count and its observer reads the note", () => {
   let coordinator: BrowserContext;
   let observer: BrowserContext;
@@ -103,5 +119,35 @@ describe("the coordinator queries a flagged count and its observer reads the not
     await page.goto(`${baseUrl}/logbook`);
     await page.getByRole("heading", { name: "Logbook", exact: true }).waitFor();
     await expect(page.getByText(NOTE, { exact: false }).count()).resolves.toBe(0);
+  });
+});
+
+describe("the coordinator checks a traced count against its tracing", () => {
+  let coordinator: BrowserContext;
+  beforeAll(async () => {
+    coordinator = await openBrowser();
+  });
+  afterAll(async () => {
+    await coordinator.close();
+  });
+
+  it("shows the drawing, its measured groups and whether the logged counts agree", async () => {
+    const traced = await findTracedCount();
+    const page = await newPage(coordinator);
+    await signIn(page, baseUrl, "coordinator@example.test");
+    await page.goto(`${baseUrl}/review/${traced.id}`);
+    const section = page.getByRole("region", { name: "Disk tracing" });
+    // The demo's tracings carry no PNG: the drawing comes from the saved positions.
+    await section.getByTestId("tracing-drawing").waitFor();
+    await expect(section.getByRole("img").getAttribute("aria-label")).resolves.toContain(
+      `${traced.groups} groups`,
+    );
+    await expect(section.getByTestId("tracing-groups").locator("tbody tr").count()).resolves.toBe(
+      traced.groups,
+    );
+    await section.getByText("The logged counts match the tracing.").waitFor();
+    // Reading only: the coordinator is not offered the observer's tracer.
+    await expect(section.getByRole("link", { name: /Disk tracer|Trace the disk/ }).count()).resolves.toBe(0);
+    await screenshot(page, "review-traced-count");
   });
 });

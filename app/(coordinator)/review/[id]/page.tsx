@@ -5,12 +5,14 @@ import { notFound } from "next/navigation";
 import { PageHeader } from "@/components/layout/app-shell";
 import { AuditTrail } from "@/components/review/audit-trail";
 import { StatusBadge } from "@/components/status-badge";
+import { TracingSummary } from "@/components/tracer/tracing-summary";
 import {
   getObservationForReview,
-  getObservationImages,
   listDecisionsOfObservation,
+  listObservationPhotos,
   listObserverRecentCounts,
 } from "@/db/queries/review";
+import { getTracingSummary } from "@/db/queries/tracings";
 import { requireRole } from "@/lib/auth/session";
 import { formatLocal, formatRelativeNumber, formatUt } from "@/lib/format/time";
 import { FLAG_LABELS } from "@/lib/review/flag-labels";
@@ -30,10 +32,11 @@ export default async function ReviewObservationPage({ params }: { params: Promis
   const found = await getObservationForReview({ observationId: id });
   if (!found) notFound();
   const obs = found.observation;
-  const [history, decisions, images] = await Promise.all([
+  const [history, decisions, tracing, photos] = await Promise.all([
     listObserverRecentCounts({ observerId: obs.observerId, limit: HISTORY_LIMIT }),
     listDecisionsOfObservation({ observationId: obs.id }),
-    getObservationImages({ observationId: obs.id }),
+    getTracingSummary({ observationId: obs.id }),
+    listObservationPhotos({ observationId: obs.id }),
   ]);
   const raw = 10 * obs.groups + obs.spots;
   const split = obs.northGroups !== null || obs.southGroups !== null;
@@ -123,27 +126,27 @@ export default async function ReviewObservationPage({ params }: { params: Promis
             )}
           </section>
 
-          {images.tracingPng || images.photos.length > 0 ? (
+          {tracing ? (
+            // The drawing, its measured groups, and whether the logged counts agree with them.
+            <TracingSummary
+              observationId={obs.id}
+              tracing={tracing}
+              counts={obs}
+              editable={false}
+              spacing=""
+            />
+          ) : null}
+
+          {photos.length > 0 ? (
             <section
-              aria-labelledby="images-heading"
+              aria-labelledby="photos-heading"
               className="rounded-lg border border-ink-100 bg-white p-5"
             >
-              <h2 id="images-heading" className="font-semibold text-ink-900">
-                Tracing and photos
+              <h2 id="photos-heading" className="font-semibold text-ink-900">
+                Photos of the disk
               </h2>
               <div className="mt-3 grid gap-4 sm:grid-cols-2">
-                {images.tracingPng ? (
-                  <figure>
-                    {/* eslint-disable-next-line @next/next/no-img-element -- an inline PNG from the database, not a static asset */}
-                    <img
-                      src={`data:image/png;base64,${images.tracingPng.toString("base64")}`}
-                      alt={`Disk tracing of ${obs.utDate} by ${found.observerName}`}
-                      className="w-full rounded border border-ink-100 bg-paper"
-                    />
-                    <figcaption className="mt-1 text-xs text-ink-500">Disk tracing</figcaption>
-                  </figure>
-                ) : null}
-                {images.photos.map((photo) => (
+                {photos.map((photo) => (
                   <figure key={photo.id}>
                     {/* eslint-disable-next-line @next/next/no-img-element -- served by the upload host, sizes vary */}
                     <img

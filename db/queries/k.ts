@@ -1,6 +1,6 @@
 import "server-only";
 
-import { asc, eq, inArray } from "drizzle-orm";
+import { asc, count, eq, inArray, max } from "drizzle-orm";
 
 import { detectKDrift, K_METHODS, type KMethod } from "@/lib/counts/k-coefficient";
 import { K_PERIOD_KINDS, type KPeriodKind } from "@/lib/series/periods";
@@ -376,4 +376,12 @@ export async function listObserverChoices(): Promise<
   return [...byObserver.values()]
     .filter((o) => o.acceptedCounts > 0)
     .sort((a, b) => b.acceptedCounts - a.acceptedCounts || a.displayName.localeCompare(b.displayName));
+}
+
+/** When the k coefficients in use were fitted (the latest fit), and how many there are. */
+export async function describeStoredK(): Promise<{ count: number; fittedAt: Date | null }> {
+  const [row] = await getDb()
+    .select({ count: count(), fittedAt: max(kCoefficients.computedAt) })
+    .from(kCoefficients);
+  return { count: row?.count ?? 0, fittedAt: row?.fittedAt ?? null };
 }

@@ -75,6 +75,10 @@ describe("the Archive", () => {
 
     await page.getByRole("link", { name: "k settings and recompute" }).first().click();
     await page.waitForURL("**/observers/k-settings");
+    // The demo's k values were fitted at set-up, before any recompute from this page.
+    await expect(page.getByTestId("stored-k").textContent()).resolves.toMatch(
+      /The \d+ k coefficients in use were fitted on \d{4}-\d\d-\d\d \d\d:\d\d UT/,
+    );
     await page.getByRole("button", { name: "Recompute every k and the series" }).click();
     await page.getByText("Done", { exact: true }).waitFor({ timeout: 90_000 });
     await expect(

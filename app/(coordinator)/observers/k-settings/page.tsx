@@ -3,7 +3,7 @@ import Link from "next/link";
 
 import { PageHeader } from "@/components/layout/app-shell";
 import { findLatestJob } from "@/db/queries/jobs";
-import { getKSettings, listObserverChoices } from "@/db/queries/k";
+import { describeStoredK, getKSettings, listObserverChoices } from "@/db/queries/k";
 import { RECOMPUTE_JOB_KIND } from "@/db/queries/recompute";
 import { listReferenceSeries } from "@/db/queries/reference-series";
 
@@ -14,11 +14,12 @@ import { ReferenceImportForm } from "./_components/reference-import-form";
 export const metadata: Metadata = { title: "k settings and recompute" };
 
 export default async function KSettingsPage() {
-  const [settings, observers, references, latestJob] = await Promise.all([
+  const [settings, observers, references, latestJob, storedK] = await Promise.all([
     getKSettings(),
     listObserverChoices(),
     listReferenceSeries(),
     findLatestJob({ kind: RECOMPUTE_JOB_KIND }),
+    describeStoredK(),
   ]);
   return (
     <>
@@ -37,7 +38,10 @@ export default async function KSettingsPage() {
       />
       <div className="grid gap-8 lg:grid-cols-2">
         <div className="flex flex-col gap-8">
-          <RecomputePanel latestJob={latestJob} />
+          <RecomputePanel
+            latestJob={latestJob}
+            storedK={{ count: storedK.count, fittedAt: storedK.fittedAt?.toISOString() ?? null }}
+          />
           <KSettingsForm
             settings={settings}
             observers={observers}

@@ -5,11 +5,19 @@ import { useEffect, useState } from "react";
 
 import { Button } from "@/components/ui/button";
 import type { JobView } from "@/db/queries/jobs";
+import { formatUt } from "@/lib/format/time";
 
 const POLL_MS = 500;
 
 /** Starts a full recompute and follows its progress until it is done. */
-export function RecomputePanel({ latestJob }: { latestJob: JobView | null }) {
+export function RecomputePanel({
+  latestJob,
+  storedK,
+}: {
+  latestJob: JobView | null;
+  /** The k coefficients in use, for when no recompute has been started here (the demo fits them at set-up). */
+  storedK: { count: number; fittedAt: string | null };
+}) {
   const router = useRouter();
   const [job, setJob] = useState<JobView | null>(latestJob);
   const [error, setError] = useState<string | null>(null);
@@ -109,12 +117,16 @@ export function RecomputePanel({ latestJob }: { latestJob: JobView | null }) {
             </p>
           ) : null}
           <p className="text-xs text-ink-500">
-            Started {new Date(job.startedAt ?? job.createdAt).toISOString().slice(0, 16).replace("T", " ")} UT
+            Started {formatUt(job.startedAt ?? job.createdAt)}
             {job.finishedAt ? `, finished ${job.finishedAt.slice(11, 19)} UT` : ""}
           </p>
         </div>
       ) : (
-        <p className="text-sm text-ink-500">No recompute has run yet.</p>
+        <p className="text-sm text-ink-500" data-testid="stored-k">
+          {storedK.fittedAt
+            ? `No recompute has been started here yet. The ${storedK.count} k coefficients in use were fitted on ${formatUt(storedK.fittedAt)}.`
+            : "No k has been fitted yet. Recompute once counts have been accepted."}
+        </p>
       )}
       {error ? (
         <p role="alert" className="text-sm font-medium text-caution-700">

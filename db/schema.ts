@@ -367,7 +367,11 @@ export const reviewDecisions = sqliteTable(
     note: text("note"),
     createdAt: createdAt(),
   },
-  (t) => [index("review_decisions_observation_idx").on(t.observationId, t.createdAt)],
+  (t) => [
+    index("review_decisions_observation_idx").on(t.observationId, t.createdAt),
+    // The Decision log reads the newest decisions first, across all observations.
+    index("review_decisions_created_idx").on(t.createdAt),
+  ],
 );
 
 export const FLAG_REASONS = [

@@ -18,6 +18,7 @@ import {
   observationGroups,
   observations,
   observers,
+  reviewDecisions,
   tracings,
   users,
 } from "./schema";
@@ -186,6 +187,25 @@ export async function seedDemo(db: Database): Promise<{ observations: number }> 
       await tx.insert(observations).values(rows.slice(i, i + CHUNK));
     }
     inserted = rows.length;
+
+    // Each accepted demo count was accepted by the demo coordinator the day
+    // after it arrived, so the Decision log and each count's history start full.
+    const coordinatorId = staff.find((u) => u.role === "coordinator")!.id;
+    const now = Date.now();
+    const decisionRows = rows
+      .filter((row) => row.status === "accepted")
+      .map((row) => ({
+        observationId: row.id,
+        actorUserId: coordinatorId,
+        action: "accepted" as const,
+        fromStatus: "submitted" as const,
+        toStatus: "accepted" as const,
+        note: null,
+        createdAt: new Date(Math.min(now, row.observedAt.getTime() + 20 * 3_600_000)),
+      }));
+    for (let i = 0; i < decisionRows.length; i += CHUNK) {
+      await tx.insert(reviewDecisions).values(decisionRows.slice(i, i + CHUNK));
+    }
 
     // The weekly disk drawings of two demo observers, stored as a saved tracing is.
     const traced = [...buildDemoTracings({ observations: scenario.observations })].map(

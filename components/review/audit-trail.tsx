@@ -1,14 +1,7 @@
 import type { ReviewAction } from "@/db/schema";
 import { ROLE_LABELS, type Role } from "@/lib/auth/roles";
 import { formatUt } from "@/lib/format/time";
-
-const ACTION_WORDS: Record<ReviewAction, string> = {
-  accepted: "Accepted into the series",
-  queried: "Queried",
-  rejected: "Rejected",
-  resubmitted: "Corrected and sent back",
-  reopened: "Reopened",
-};
+import { REVIEW_ACTION_WORDS } from "@/lib/review/action-labels";
 
 export type AuditEntry = {
   id: string;
@@ -56,7 +49,7 @@ export function AuditTrail({
               : `${d.actorName ?? "Unknown"} (${ROLE_LABELS[d.actorRole]})`;
           return (
             <li key={d.id} data-testid="audit-entry">
-              <p className="font-medium text-ink-900">{ACTION_WORDS[d.action]}</p>
+              <p className="font-medium text-ink-900">{REVIEW_ACTION_WORDS[d.action]}</p>
               <p className="text-xs text-ink-500">
                 {formatUt(d.createdAt)} · {who}
               </p>

@@ -1,13 +1,31 @@
 import "server-only";
 
-import { and, asc, count, desc, eq, exists, gte, inArray, lte, notExists, sql, type SQL } from "drizzle-orm";
+import {
+  and,
+  asc,
+  count,
+  desc,
+  eq,
+  exists,
+  gte,
+  inArray,
+  lt,
+  lte,
+  notExists,
+  sql,
+  type SQL,
+} from "drizzle-orm";
 
 import { computeRawCount } from "@/lib/counts/relative-number";
 import { describeRevision } from "@/lib/review/changes";
 import { computeDayNetworkValue } from "@/lib/review/flags";
 import { canApplyDecision, REVIEW_TRANSITIONS } from "@/lib/review/transitions";
 import type { ObservationInput } from "@/lib/validation/observation";
-import type { ReviewDecisionAction, ReviewQueueQueryInput } from "@/lib/validation/review";
+import type {
+  DecisionLogQueryInput,
+  ReviewDecisionAction,
+  ReviewQueueQueryInput,
+} from "@/lib/validation/review";
 
 import { getDb } from "../client";
 import {
@@ -171,6 +189,77 @@ export async function listReviewQueue(query: ReviewQueueQueryInput) {
     };
   });
   return { rows: data, total: totals[0]?.total ?? 0 };
+}
+
+const DAY_MS = 86_400_000;
+
+/**
+ * The Decision log: every line of the audit trail across the network, newest
+ * first by default, a page at a time, with who decided, on which count and
+ * why. `from` and `to` are UT days of the decisions themselves.
+ */
+export async function listDecisionLog(query: DecisionLogQueryInput) {
+  const db = getDb();
+  const filters: SQL[] = [];
+  if (query.action) filters.push(eq(reviewDecisions.action, query.action));
+  if (query.from)
+    filters.push(gte(reviewDecisions.createdAt, new Date(Date.parse(`${query.from}T00:00:00Z`))));
+  if (query.to)
+    filters.push(lt(reviewDecisions.createdAt, new Date(Date.parse(`${query.to}T00:00:00Z`) + DAY_MS)));
+  if (query.observerId) filters.push(eq(observations.observerId, query.observerId));
+  if (query.actorUserId) filters.push(eq(reviewDecisions.actorUserId, query.actorUserId));
+  const where = filters.length > 0 ? and(...filters) : undefined;
+  const direction = query.sort === "decidedAt:asc" ? asc : desc;
+
+  const [rows, totals] = await Promise.all([
+    db
+      .select({
+        id: reviewDecisions.id,
+        decidedAt: reviewDecisions.createdAt,
+        action: reviewDecisions.action,
+        fromStatus: reviewDecisions.fromStatus,
+        toStatus: reviewDecisions.toStatus,
+        note: reviewDecisions.note,
+        actorName: users.name,
+        actorRole: users.role,
+        observationId: observations.id,
+        utDate: observations.utDate,
+        currentStatus: observations.status,
+        observerName: observers.displayName,
+        observerCode: observers.code,
+      })
+      .from(reviewDecisions)
+      .innerJoin(observations, eq(observations.id, reviewDecisions.observationId))
+      .innerJoin(observers, eq(observers.id, observations.observerId))
+      .innerJoin(users, eq(users.id, reviewDecisions.actorUserId))
+      .where(where)
+      .orderBy(direction(reviewDecisions.createdAt), direction(reviewDecisions.id))
+      .limit(query.pageSize)
+      .offset((query.page - 1) * query.pageSize),
+    // The join is needed only to filter by observer; without it the count reads the index alone.
+    query.observerId
+      ? db
+          .select({ total: count() })
+          .from(reviewDecisions)
+          .innerJoin(observations, eq(observations.id, reviewDecisions.observationId))
+          .where(where)
+      : db.select({ total: count() }).from(reviewDecisions).where(where),
+  ]);
+  return { rows, total: totals[0]?.total ?? 0 };
+}
+
+export type DecisionLogRow = Awaited<ReturnType<typeof listDecisionLog>>["rows"][number];
+
+/** Who has decided anything on the Review desk, for the Decision log's filter. */
+export async function listDeciders(): Promise<Array<{ id: string; name: string }>> {
+  const rows = await getDb()
+    .selectDistinct({ id: users.id, name: users.name, email: users.email })
+    .from(reviewDecisions)
+    .innerJoin(users, eq(users.id, reviewDecisions.actorUserId))
+    .where(inArray(users.role, ["coordinator", "admin"]));
+  return rows
+    .map((r) => ({ id: r.id, name: r.name ?? r.email ?? r.id }))
+    .sort((a, b) => a.name.localeCompare(b.name));
 }
 
 /** How many observations wait in each tab of the Review desk. */

@@ -9,12 +9,13 @@ import { ROLES } from "@/lib/auth/roles";
 import { DEFAULT_TEMPLATE_DIAMETER_MM } from "@/lib/tracer/template-svg";
 import { termExportQuerySchema } from "@/lib/validation/classroom";
 import { diskTemplateQuerySchema } from "@/lib/validation/disk-template";
-import { reviewQueueQuerySchema } from "@/lib/validation/review";
+import { decisionLogQuerySchema, reviewQueueQuerySchema } from "@/lib/validation/review";
 import { observerChartQuerySchema } from "@/lib/validation/series-query";
 
 import type { ApiRoute } from "./routes";
 import {
   chartSeriesSchema,
+  decisionLogPageSchema,
   groupLatitudesSchema,
   jobSchema,
   kSettingsViewSchema,
@@ -43,6 +44,29 @@ export const REVIEW_QUEUE_ROUTE: ApiRoute = {
   },
   responses: { 200: { description: "A page of the queue.", schema: reviewQueuePageSchema } },
   example: { query: { status: "submitted", flag: "any", sort: "observedAt:asc" } },
+};
+
+/** GET /api/v1/review/decisions, beside the POST in routes.ts. */
+export const DECISION_LOG_ROUTE: ApiRoute = {
+  operationId: "listDecisionLog",
+  method: "get",
+  path: "/api/v1/review/decisions",
+  tag: "Review desk",
+  summary: "The Decision log: every review decision (coordinators)",
+  description:
+    "Every line of the audit trail across the network, newest first unless asked otherwise: who decided, when, what and why, on which observation, with the observation's status now.",
+  roles: ["coordinator"],
+  scope: "read",
+  query: decisionLogQuerySchema,
+  notes: {
+    action: "Only this kind of decision.",
+    from: "First UT day of the decisions to include.",
+    to: "Last UT day of the decisions to include.",
+    observerId: "Only decisions on this observer's counts.",
+    actorUserId: "Only decisions taken by this user.",
+  },
+  responses: { 200: { description: "A page of the log.", schema: decisionLogPageSchema } },
+  example: { query: { action: "rejected", sort: "decidedAt:desc" } },
 };
 
 /** GET /api/v1/k-settings, beside the PUT in routes.ts. */

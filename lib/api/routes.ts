@@ -27,6 +27,7 @@ import {
   TRACING_AND_PHOTO_ROUTES,
 } from "./routes-logbook";
 import {
+  DECISION_LOG_ROUTE,
   DISK_TEMPLATE_ROUTE,
   K_SETTINGS_READ_ROUTE,
   REFERENCE_SERIES_LIST_ROUTE,
@@ -331,6 +332,7 @@ export const API_ROUTES: ApiRoute[] = [
     },
   },
   REVIEW_QUEUE_ROUTE,
+  DECISION_LOG_ROUTE,
   {
     operationId: "decideObservations",
     method: "post",

@@ -6,9 +6,16 @@
  */
 import { z } from "zod";
 
-import { FLAG_REASONS, INSTRUMENT_KINDS, JOB_STATUSES, OBSERVATION_STATUSES } from "@/db/schema";
+import {
+  FLAG_REASONS,
+  INSTRUMENT_KINDS,
+  JOB_STATUSES,
+  OBSERVATION_STATUSES,
+  REVIEW_ACTIONS,
+} from "@/db/schema";
 import { K_METHODS, type KMethod } from "@/lib/counts/k-coefficient";
 import { K_PERIOD_KINDS } from "@/lib/series/periods";
+import { ROLES } from "@/lib/auth/roles";
 import { REVIEW_DECISION_ACTIONS } from "@/lib/validation/review";
 
 const isoInstant = z.string().meta({ format: "date-time", description: "An instant in UT (ISO 8601)." });
@@ -321,6 +328,32 @@ export const reviewDecisionResultSchema = z.object({
   mail: z.object({ sent: z.int(), failed: z.int() }),
 });
 
+export const decisionLogPageSchema = z.object({
+  data: z.array(
+    z.object({
+      id: z.string(),
+      decidedAt: isoInstant,
+      action: z.enum(REVIEW_ACTIONS).meta({
+        description:
+          "What happened: accepted, queried, rejected, reopened, or resubmitted (by the observer).",
+      }),
+      fromStatus: z.enum(OBSERVATION_STATUSES),
+      toStatus: z.enum(OBSERVATION_STATUSES),
+      note: z.string().nullable().meta({ description: "Why, as written by whoever decided." }),
+      actorName: z.string().nullable(),
+      actorRole: z.enum(ROLES),
+      observationId: z.string(),
+      utDate: isoDay,
+      currentStatus: z.enum(OBSERVATION_STATUSES).meta({ description: "The observation's status now." }),
+      observerName: z.string(),
+      observerCode: z.string(),
+    }),
+  ),
+  page: z.int(),
+  pageSize: z.int(),
+  total: z.int(),
+});
+
 const gapped = z.array(z.number().nullable());
 
 export const chartSeriesSchema = z
@@ -394,6 +427,7 @@ export const NAMED_RESPONSE_SCHEMAS: ReadonlyArray<readonly [string, z.ZodType]>
   ["ReferenceSeriesList", referenceSeriesListSchema],
   ["ReviewQueuePage", reviewQueuePageSchema],
   ["ReviewDecisionResult", reviewDecisionResultSchema],
+  ["DecisionLogPage", decisionLogPageSchema],
   ["ChartSeries", chartSeriesSchema],
   ["GroupLatitudes", groupLatitudesSchema],
   ["ObserverChart", observerChartSchema],

@@ -1,5 +1,6 @@
 import { z } from "zod";
 
+import type { ReviewAction } from "@/db/schema";
 import { FLAG_REASON_LIST } from "@/lib/review/flag-labels";
 
 import { capitalise } from "./fields";
@@ -118,6 +119,56 @@ export const reviewQueueQuerySchema = z
   });
 
 export type ReviewQueueQueryInput = z.output<typeof reviewQueueQuerySchema>;
+
+/** Every kind of line in the audit trail (the same list as the database's), for the Decision log's filter. */
+export const DECISION_LOG_ACTIONS = [
+  "accepted",
+  "queried",
+  "rejected",
+  "resubmitted",
+  "reopened",
+] as const satisfies readonly ReviewAction[];
+
+export const DECISION_LOG_SORTS = ["decidedAt:desc", "decidedAt:asc"] as const;
+
+/** Query string of GET /api/v1/review/decisions; shared by the Decision log table. */
+export const decisionLogQuerySchema = z
+  .strictObject(
+    {
+      page: z.coerce
+        .number({ error: "page must be a number." })
+        .int()
+        .min(1, { error: "page starts at 1." })
+        .default(1),
+      pageSize: z.coerce
+        .number({ error: "pageSize must be a number." })
+        .int()
+        .min(1, { error: "pageSize must be at least 1." })
+        .max(100, { error: "pageSize can be at most 100." })
+        .default(25),
+      sort: z
+        .enum(DECISION_LOG_SORTS, { error: `sort is one of ${DECISION_LOG_SORTS.join(", ")}.` })
+        .default("decidedAt:desc"),
+      action: z
+        .enum(DECISION_LOG_ACTIONS, { error: `action is one of ${DECISION_LOG_ACTIONS.join(", ")}.` })
+        .optional(),
+      /** First and last UT day of the decisions (not of the observations). */
+      from: isoDay.optional(),
+      to: isoDay.optional(),
+      observerId: z.string().trim().min(1).max(64, { error: "That is not an observer id." }).optional(),
+      actorUserId: z.string().trim().min(1).max(64, { error: "That is not a user id." }).optional(),
+    },
+    {
+      error: (issue) =>
+        issue.code === "unrecognized_keys" ? `Unknown query parameter: ${issue.keys.join(", ")}.` : undefined,
+    },
+  )
+  .refine((q) => !q.from || !q.to || q.from <= q.to, {
+    path: ["to"],
+    error: "'to' must not be before 'from'.",
+  });
+
+export type DecisionLogQueryInput = z.output<typeof decisionLogQuerySchema>;
 
 /** Bounds on the outlier threshold: below 2 almost every busy day is flagged, above 10 almost nothing is. */
 export const OUTLIER_THRESHOLD_MIN = 2;

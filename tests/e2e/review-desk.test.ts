@@ -101,6 +101,26 @@ describe("the coordinator queries a flagged count and its observer reads the not
     await screenshot(page, "review-desk-queried");
   });
 
+  it("lists the query at the top of the Decision log, with who, why and the count it was on", async () => {
+    const page = await newPage(coordinator);
+    await page.goto(`${baseUrl}/review`);
+    await page.getByRole("link", { name: "Decision log" }).click();
+    await page.waitForURL("**/review/decisions");
+    const table = page.getByRole("table", { name: "Review decisions, newest first" });
+    await page.locator('table[aria-busy="false"]').waitFor();
+    const newest = table.locator("tbody tr").first();
+    await expect(newest.textContent()).resolves.toContain(NOTE);
+    await expect(newest.getByText("Queried", { exact: true }).count()).resolves.toBe(1);
+    await expect(newest.getByRole("link").getAttribute("href")).resolves.toBe(`/review/${target.id}`);
+
+    // Filtered to rejections, the query is not there.
+    await page.getByLabel("Decision", { exact: true }).selectOption("rejected");
+    await expect.poll(() => table.getByText(NOTE).count(), { timeout: 10_000 }).toBe(0);
+    await page.getByLabel("Decision", { exact: true }).selectOption("queried");
+    await table.getByText(NOTE).waitFor();
+    await screenshot(page, "review-decision-log");
+  });
+
   it("shows the note in the observer's Logbook and on the count, with the form to send it back", async () => {
     const page = await newPage(observer);
     await signIn(page, baseUrl, target.email);

@@ -1,10 +1,10 @@
-import { count, eq, sum } from "drizzle-orm";
+import { count, eq, sql, sum } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 
 import { GET as getLatitudes } from "@/app/api/v1/series/latitudes/route";
 import { getDb } from "@/db/client";
 import { seedDemo } from "@/db/seed";
-import { observationGroups, observations, tracings, users } from "@/db/schema";
+import { observationGroups, observations, reviewDecisions, tracings, users } from "@/db/schema";
 import { DEMO_STAFF } from "@/lib/demo/scenario";
 
 import { apiRequest } from "./support";
@@ -20,6 +20,30 @@ describe("the demo network's tracings", () => {
       .where(eq(users.email, DEMO_STAFF.coordinator.email));
     coordinatorId = coordinator!.id;
   }, 60_000);
+
+  it("gives every accepted count its acceptance by the demo coordinator, and waiting counts none", async () => {
+    const byStatus = await getDb()
+      .select({ status: observations.status, counts: count(), decisions: count(reviewDecisions.id) })
+      .from(observations)
+      .leftJoin(reviewDecisions, eq(reviewDecisions.observationId, observations.id))
+      .groupBy(observations.status);
+    const accepted = byStatus.find((r) => r.status === "accepted")!;
+    expect(accepted.decisions).toBe(accepted.counts);
+    expect(byStatus.find((r) => r.status === "submitted")?.decisions).toBe(0);
+    const kinds = await getDb()
+      .selectDistinct({ actor: reviewDecisions.actorUserId, action: reviewDecisions.action })
+      .from(reviewDecisions);
+    expect(kinds).toEqual([{ actor: coordinatorId, action: "accepted" }]);
+    // Decided after the count arrived, never in the future.
+    const [late] = await getDb()
+      .select({ n: count() })
+      .from(reviewDecisions)
+      .innerJoin(observations, eq(observations.id, reviewDecisions.observationId))
+      .where(
+        sql`${reviewDecisions.createdAt} <= ${observations.createdAt} or ${reviewDecisions.createdAt} > ${Date.now()}`,
+      );
+    expect(late!.n).toBe(0);
+  });
 
   it("stores each drawing with its groups, which add up to the logged counts", async () => {
     const db = getDb();

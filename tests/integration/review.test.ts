@@ -3,7 +3,7 @@ import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from "vites
 
 import { PUT as putObservation } from "@/app/api/v1/observations/[id]/route";
 import { POST as postObservation } from "@/app/api/v1/observations/route";
-import { POST as postDecision } from "@/app/api/v1/review/decisions/route";
+import { GET as getDecisionLog, POST as postDecision } from "@/app/api/v1/review/decisions/route";
 import { GET as getQueue } from "@/app/api/v1/review/queue/route";
 import { getDb } from "@/db/client";
 import { listCapturedMail } from "@/db/queries/mail";
@@ -556,5 +556,114 @@ describe("POST /api/v1/review/decisions", () => {
     });
     // Both the day it left and the day it moved to.
     expect(refreshSpy).toHaveBeenCalledWith({ days: [DAY, "2026-03-15"] });
+  });
+});
+
+describe("GET /api/v1/review/decisions (the Decision log)", () => {
+  type Entry = {
+    id: string;
+    decidedAt: string;
+    action: string;
+    fromStatus: string;
+    toStatus: string;
+    note: string | null;
+    actorName: string | null;
+    actorRole: string;
+    observationId: string;
+    utDate: string;
+    currentStatus: string;
+    observerName: string;
+  };
+  type LogPage = { data: Entry[]; total: number; page: number; pageSize: number };
+
+  async function log(query: string, userId = coordinator.user.id) {
+    return getDecisionLog(await apiRequest(`/api/v1/review/decisions?${query}`, { userId }));
+  }
+  async function logPage(query: string): Promise<LogPage> {
+    const res = await log(query);
+    expect(res.status).toBe(200);
+    return (await res.json()) as LogPage;
+  }
+
+  it("lists every line of the audit trail, newest first, with who, what, why and on which count", async () => {
+    const all = await logPage("pageSize=100");
+    expect(all.total).toBe(await countRows(reviewDecisions));
+    expect(all.data).toHaveLength(all.total);
+    const times = all.data.map((e) => Date.parse(e.decidedAt));
+    expect(times).toEqual([...times].sort((a, b) => b - a));
+
+    // The query sent to Alice about her slipped digit above, as the coordinator wrote it.
+    expect(all.data.find((e) => e.observationId === ids.typo && e.action === "queried")).toMatchObject({
+      fromStatus: "submitted",
+      toStatus: "queried",
+      note: "170 spots in 3 groups looks like a slipped digit. Was it 17?",
+      actorName: "Coordinator Quill",
+      actorRole: "coordinator",
+      utDate: DAY,
+      observerName: "Alice",
+    });
+    // Dave's own correction is a line too, by the observer; his count waits again.
+    expect(all.data.find((e) => e.observationId === ids.dave && e.action === "resubmitted")).toMatchObject({
+      actorRole: "observer",
+      currentStatus: "submitted",
+    });
+
+    const oldestFirst = await logPage("pageSize=100&sort=decidedAt:asc");
+    expect(oldestFirst.data.map((e) => e.id)).toEqual(all.data.map((e) => e.id).reverse());
+    const second = await logPage("pageSize=2&page=2");
+    expect(second.data.map((e) => e.id)).toEqual(all.data.slice(2, 4).map((e) => e.id));
+  });
+
+  it("filters by decision, observer, who decided and the UT day of the decision", async () => {
+    const everything = (await logPage("pageSize=100")).data;
+    const expectFiltered = async (query: string, keep: (e: Entry) => boolean) => {
+      const page = await logPage(`pageSize=100&${query}`);
+      const expected = everything.filter(keep);
+      expect(expected.length).toBeGreaterThan(0);
+      expect(page.total).toBe(expected.length);
+      expect(page.data.map((e) => e.id)).toEqual(expected.map((e) => e.id));
+    };
+    await expectFiltered("action=rejected", (e) => e.action === "rejected");
+    await expectFiltered(`observerId=${alice.observer!.id}`, (e) => e.observerName === "Alice");
+    await expectFiltered(`actorUserId=${admin.user.id}`, (e) => e.action === "reopened");
+    await expectFiltered(
+      `actorUserId=${coordinator.user.id}&action=accepted`,
+      (e) => e.actorName === "Coordinator Quill" && e.action === "accepted",
+    );
+
+    const today = new Date().toISOString().slice(0, 10);
+    const tomorrow = new Date(Date.now() + 86_400_000).toISOString().slice(0, 10);
+    const yesterday = new Date(Date.now() - 86_400_000).toISOString().slice(0, 10);
+    expect((await logPage(`from=${yesterday}&to=${tomorrow}`)).total).toBe(everything.length);
+    expect((await logPage(`from=${tomorrow}`)).total).toBe(0);
+    expect((await logPage(`to=${yesterday}`)).total).toBe(0);
+    // A decision taken today is inside a range that ends today.
+    expect((await logPage(`from=${today}&to=${today}`)).total).toBe(everything.length);
+  });
+
+  it("lets an admin in and refuses observers, educators, students and the signed-out", async () => {
+    expect((await log("", admin.user.id)).status).toBe(200);
+    for (const who of [alice, educator, student]) {
+      const res = await log("", who.user.id);
+      expect(res.status).toBe(403);
+      expect((await res.json()).error.code).toBe("forbidden");
+    }
+    expect((await getDecisionLog(await apiRequest("/api/v1/review/decisions"))).status).toBe(401);
+  });
+
+  it("answers 400 for a bad query string, saying what is wrong", async () => {
+    for (const [query, says] of [
+      ["action=approved", "action is one of"],
+      ["from=2026-03-15&to=2026-03-14", "'to' must not be before 'from'."],
+      ["sort=observer:asc", "sort is one of"],
+      ["colour=red", "Unknown query parameter: colour."],
+      ["pageSize=500", "pageSize can be at most 100."],
+    ] as const) {
+      const res = await log(query);
+      expect(res.status).toBe(400);
+      const body = await res.json();
+      expect(body.error.code).toBe("invalid_input");
+      expect(JSON.stringify(body.error.issues)).toContain(says);
+    }
   });
 });

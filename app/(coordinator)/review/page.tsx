@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import Link from "next/link";
 
 import { PageHeader } from "@/components/layout/app-shell";
 import { countAwaitingReview, listObserversForReview } from "@/db/queries/review";
@@ -23,6 +24,11 @@ export default async function ReviewDeskPage() {
       <PageHeader
         title="Review desk"
         lead="Counts waiting for your decision. Only accepted counts enter the network series; flags point at counts worth a second look, they decide nothing."
+        actions={
+          <Link href="/review/decisions" className="text-sm font-semibold text-corona-700 underline">
+            Decision log
+          </Link>
+        }
       />
       <ReviewSettingsForm outlierThreshold={outlierThreshold} />
       <ReviewQueue observers={observers} initialCounts={counts} />

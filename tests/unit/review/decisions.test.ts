@@ -2,7 +2,11 @@ import { describe, expect, it } from "vitest";
 
 import { describeRevision } from "@/lib/review/changes";
 import { canApplyDecision, listAvailableDecisions } from "@/lib/review/transitions";
+import { REVIEW_ACTIONS } from "@/db/schema";
+import { REVIEW_ACTION_WORDS } from "@/lib/review/action-labels";
 import {
+  DECISION_LOG_ACTIONS,
+  decisionLogQuerySchema,
   MAX_DECISION_IDS,
   reviewDecisionSchema,
   reviewQueueQuerySchema,
@@ -65,6 +69,30 @@ describe("reviewQueueQuerySchema and reviewSettingsSchema", () => {
     );
     expect(reviewSettingsSchema.safeParse({ outlierThreshold: "1" }).success).toBe(false);
     expect(reviewSettingsSchema.safeParse({ outlierThreshold: "many" }).success).toBe(false);
+  });
+});
+
+describe("decisionLogQuerySchema", () => {
+  it("offers every kind of audit line the database keeps, each with its words", () => {
+    expect([...DECISION_LOG_ACTIONS].sort()).toEqual([...REVIEW_ACTIONS].sort());
+    for (const action of DECISION_LOG_ACTIONS) expect(REVIEW_ACTION_WORDS[action]).toBeTruthy();
+  });
+
+  it("defaults to the newest decisions first and reads numbers from the query string", () => {
+    expect(decisionLogQuerySchema.parse({})).toEqual({ page: 1, pageSize: 25, sort: "decidedAt:desc" });
+    expect(decisionLogQuerySchema.parse({ page: "3", pageSize: "50", action: "reopened" })).toMatchObject({
+      page: 3,
+      pageSize: 50,
+      action: "reopened",
+    });
+  });
+
+  it("refuses a date range that ends before it starts, and a day that is not a date", () => {
+    const backwards = decisionLogQuerySchema.safeParse({ from: "2026-03-15", to: "2026-03-14" });
+    expect(backwards.error?.issues[0]).toMatchObject({ path: ["to"] });
+    expect(decisionLogQuerySchema.safeParse({ from: "14/03/2026" }).error?.issues[0]?.message).toBe(
+      "Use a date like 2026-03-14.",
+    );
   });
 });
 

@@ -1,10 +1,11 @@
+import { listDecisionLog } from "@/db/queries/review";
 import { requireRole } from "@/lib/auth/session";
 import { invalidInput } from "@/lib/http/errors";
 import { withIdempotency } from "@/lib/http/idempotency";
 import { readJsonBody } from "@/lib/http/read-json";
 import { handleRoute } from "@/lib/http/respond";
 import { decideObservations } from "@/lib/review/decide";
-import { reviewDecisionSchema } from "@/lib/validation/review";
+import { decisionLogQuerySchema, reviewDecisionSchema } from "@/lib/validation/review";
 
 /**
  * Accept, query, reject or reopen one or many observations, all or none.
@@ -23,4 +24,14 @@ export const POST = handleRoute(async (request: Request) => {
       body: await decideObservations({ actorUserId: user.id, input: parsed.data }),
     }),
   );
+});
+
+/** The Decision log: every line of the audit trail across the network, a page at a time. */
+export const GET = handleRoute(async (request: Request) => {
+  await requireRole(["coordinator"], { request });
+  const parsed = decisionLogQuerySchema.safeParse(Object.fromEntries(new URL(request.url).searchParams));
+  if (!parsed.success) throw invalidInput(parsed.error, "The query string needs attention.");
+  const q = parsed.data;
+  const { rows, total } = await listDecisionLog(q);
+  return Response.json({ data: rows, page: q.page, pageSize: q.pageSize, total });
 });

@@ -1,0 +1,308 @@
+"use client";
+
+import { createColumnHelper, type PaginationState, type SortingState } from "@tanstack/react-table";
+import Link from "next/link";
+import { useEffect, useMemo, useState } from "react";
+
+import { DataTable, type ServerTableFeatures } from "@/components/ui/data-table";
+import { Input, Select } from "@/components/ui/field";
+import { StatusBadge } from "@/components/status-badge";
+import type { ObservationStatus, ReviewAction } from "@/db/schema";
+import { ROLE_LABELS, type Role } from "@/lib/auth/roles";
+import { formatUt } from "@/lib/format/time";
+import { REVIEW_ACTION_WORDS } from "@/lib/review/action-labels";
+import { DECISION_LOG_ACTIONS, decisionLogQuerySchema } from "@/lib/validation/review";
+
+export type DecisionLogEntry = {
+  id: string;
+  decidedAt: string;
+  action: ReviewAction;
+  fromStatus: ObservationStatus;
+  toStatus: ObservationStatus;
+  note: string | null;
+  actorName: string | null;
+  actorRole: Role;
+  observationId: string;
+  utDate: string;
+  currentStatus: ObservationStatus;
+  observerName: string;
+  observerCode: string;
+};
+
+type Page = { data: DecisionLogEntry[]; total: number };
+
+const ACTION_TONE: Record<ReviewAction, string> = {
+  accepted: "text-meadow-700",
+  queried: "text-ink-800",
+  rejected: "text-caution-700",
+  resubmitted: "text-corona-800",
+  reopened: "text-corona-800",
+};
+
+const column = createColumnHelper<ServerTableFeatures, DecisionLogEntry>();
+
+/** Every review decision in the network, newest first, filtered and paged on the server. */
+export function DecisionLog({
+  observers,
+  deciders,
+}: {
+  observers: Array<{ id: string; displayName: string; code: string }>;
+  deciders: Array<{ id: string; name: string }>;
+}) {
+  const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: 25 });
+  const [sorting, setSorting] = useState<SortingState>([{ id: "decidedAt", desc: true }]);
+  const [action, setAction] = useState("");
+  const [observerId, setObserverId] = useState("");
+  const [actorUserId, setActorUserId] = useState("");
+  const [from, setFrom] = useState("");
+  const [to, setTo] = useState("");
+  const [page, setPage] = useState<Page>({ data: [], total: 0 });
+  const [answered, setAnswered] = useState<{ query: string; error: string | null } | null>(null);
+
+  // The same schema the route reads the query string with: a bad filter is
+  // explained here and never sent.
+  const checked = useMemo(() => {
+    const sort = sorting[0] ?? { id: "decidedAt", desc: true };
+    const raw: Record<string, string> = {
+      page: String(pagination.pageIndex + 1),
+      pageSize: String(pagination.pageSize),
+      sort: `decidedAt:${sort.desc ? "desc" : "asc"}`,
+    };
+    if (action) raw.action = action;
+    if (observerId) raw.observerId = observerId;
+    if (actorUserId) raw.actorUserId = actorUserId;
+    if (from) raw.from = from;
+    if (to) raw.to = to;
+    const parsed = decisionLogQuerySchema.safeParse(raw);
+    return parsed.success
+      ? { query: new URLSearchParams(raw).toString(), error: null }
+      : { query: null, error: parsed.error.issues[0]?.message ?? "Check the filters." };
+  }, [pagination, sorting, action, observerId, actorUserId, from, to]);
+
+  useEffect(() => {
+    const query = checked.query;
+    if (query === null) return;
+    const controller = new AbortController();
+    fetch(`/api/v1/review/decisions?${query}`, { signal: controller.signal })
+      .then(async (res) => {
+        const body = await res.json();
+        if (!res.ok) throw new Error(body?.error?.message ?? "The Decision log could not be loaded.");
+        setPage(body as Page);
+        setAnswered({ query, error: null });
+      })
+      .catch((e: unknown) => {
+        if (!controller.signal.aborted) setAnswered({ query, error: (e as Error).message });
+      });
+    return () => controller.abort();
+  }, [checked.query]);
+
+  const loading = checked.query !== null && answered?.query !== checked.query;
+  const error = checked.error ?? (answered?.query === checked.query ? answered.error : null);
+  const firstPage = () => setPagination((p) => ({ ...p, pageIndex: 0 }));
+  const filtered = Boolean(action || observerId || actorUserId || from || to);
+
+  const columns = useMemo(
+    () => [
+      column.accessor("decidedAt", {
+        header: "Decided (UT)",
+        enableSorting: true,
+        cell: (info) => (
+          <span className="whitespace-nowrap">{formatUt(info.getValue()).replace(" UT", "")}</span>
+        ),
+      }),
+      column.accessor("action", {
+        header: "Decision",
+        enableSorting: false,
+        cell: (info) => (
+          <span className={`font-semibold ${ACTION_TONE[info.getValue()]}`}>
+            {REVIEW_ACTION_WORDS[info.getValue()]}
+          </span>
+        ),
+      }),
+      column.accessor("actorName", {
+        header: "By",
+        enableSorting: false,
+        cell: (info) => (
+          <span>
+            <span className="block">{info.getValue() ?? "Unknown"}</span>
+            <span className="block text-xs text-ink-500">{ROLE_LABELS[info.row.original.actorRole]}</span>
+          </span>
+        ),
+      }),
+      column.accessor("utDate", {
+        header: "Count",
+        enableSorting: false,
+        cell: (info) => (
+          <Link
+            href={`/review/${info.row.original.observationId}`}
+            className="font-medium whitespace-nowrap text-ink-900 underline underline-offset-2 hover:text-corona-700"
+          >
+            {info.getValue()}
+          </Link>
+        ),
+      }),
+      column.accessor("observerName", {
+        header: "Observer",
+        enableSorting: false,
+        cell: (info) => (
+          <span>
+            {info.getValue()} <span className="text-xs text-ink-500">{info.row.original.observerCode}</span>
+          </span>
+        ),
+      }),
+      column.accessor("note", {
+        header: "Why",
+        enableSorting: false,
+        cell: (info) =>
+          info.getValue() ? (
+            <span className="block max-w-xs whitespace-normal text-ink-800">{info.getValue()}</span>
+          ) : (
+            <span className="text-ink-400">—</span>
+          ),
+      }),
+      column.accessor("currentStatus", {
+        header: "Now",
+        enableSorting: false,
+        cell: (info) => <StatusBadge status={info.getValue()} />,
+      }),
+    ],
+    [],
+  );
+
+  return (
+    <div className="flex flex-col gap-3">
+      <div className="flex flex-wrap items-end gap-3">
+        <div className="flex w-52 flex-col gap-1 text-sm">
+          <label htmlFor="log-action" className="font-medium text-ink-700">
+            Decision
+          </label>
+          <Select
+            id="log-action"
+            value={action}
+            onChange={(e) => {
+              setAction(e.target.value);
+              firstPage();
+            }}
+          >
+            <option value="">Every decision</option>
+            {DECISION_LOG_ACTIONS.map((a) => (
+              <option key={a} value={a}>
+                {REVIEW_ACTION_WORDS[a]}
+              </option>
+            ))}
+          </Select>
+        </div>
+        <div className="flex w-60 flex-col gap-1 text-sm">
+          <label htmlFor="log-observer" className="font-medium text-ink-700">
+            Observer
+          </label>
+          <Select
+            id="log-observer"
+            value={observerId}
+            onChange={(e) => {
+              setObserverId(e.target.value);
+              firstPage();
+            }}
+          >
+            <option value="">Every observer</option>
+            {observers.map((o) => (
+              <option key={o.id} value={o.id}>
+                {o.displayName} ({o.code})
+              </option>
+            ))}
+          </Select>
+        </div>
+        <div className="flex w-52 flex-col gap-1 text-sm">
+          <label htmlFor="log-actor" className="font-medium text-ink-700">
+            Decided by
+          </label>
+          <Select
+            id="log-actor"
+            value={actorUserId}
+            onChange={(e) => {
+              setActorUserId(e.target.value);
+              firstPage();
+            }}
+          >
+            <option value="">Anyone</option>
+            {deciders.map((d) => (
+              <option key={d.id} value={d.id}>
+                {d.name}
+              </option>
+            ))}
+          </Select>
+        </div>
+        <div className="flex flex-col gap-1 text-sm">
+          <label htmlFor="log-from" className="font-medium text-ink-700">
+            Decided from (UT)
+          </label>
+          <Input
+            id="log-from"
+            type="date"
+            value={from}
+            onChange={(e) => {
+              setFrom(e.target.value);
+              firstPage();
+            }}
+          />
+        </div>
+        <div className="flex flex-col gap-1 text-sm">
+          <label htmlFor="log-to" className="font-medium text-ink-700">
+            to
+          </label>
+          <Input
+            id="log-to"
+            type="date"
+            value={to}
+            onChange={(e) => {
+              setTo(e.target.value);
+              firstPage();
+            }}
+          />
+        </div>
+        {filtered ? (
+          <button
+            type="button"
+            className="pb-2 text-sm text-corona-700 underline"
+            onClick={() => {
+              setAction("");
+              setObserverId("");
+              setActorUserId("");
+              setFrom("");
+              setTo("");
+              firstPage();
+            }}
+          >
+            Clear filters
+          </button>
+        ) : null}
+      </div>
+
+      {error ? (
+        <p role="alert" className="text-sm font-medium text-caution-700">
+          {error}
+        </p>
+      ) : null}
+
+      <DataTable
+        caption="Review decisions, newest first"
+        columns={columns}
+        rows={page.data}
+        rowCount={page.total}
+        pagination={pagination}
+        onPaginationChange={setPagination}
+        sorting={sorting}
+        onSortingChange={(next) => {
+          setSorting(next.length ? next : [{ id: "decidedAt", desc: true }]);
+          firstPage();
+        }}
+        loading={loading}
+        empty={
+          filtered
+            ? "No decision matches these filters."
+            : "No decisions yet. Every accept, query, rejection and reopening on the Review desk is listed here."
+        }
+      />
+    </div>
+  );
+}

@@ -1,0 +1,1 @@
+CREATE INDEX `review_decisions_created_idx` ON `review_decisions` (`created_at`);

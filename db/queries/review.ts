@@ -11,7 +11,9 @@ import {
   inArray,
   lt,
   lte,
+  ne,
   notExists,
+  or,
   sql,
   type SQL,
 } from "drizzle-orm";
@@ -260,6 +262,44 @@ export async function listDeciders(): Promise<Array<{ id: string; name: string }
   return rows
     .map((r) => ({ id: r.id, name: r.name ?? r.email ?? r.id }))
     .sort((a, b) => a.name.localeCompare(b.name));
+}
+
+/**
+ * The count to review after this one, in the desk's default order (newest
+ * arrival first): the next older one waiting, or else the newest; null when
+ * nothing else waits.
+ */
+export async function findNextAwaitingReview({
+  observationId,
+  receivedAt,
+}: {
+  observationId: string;
+  receivedAt: Date;
+}): Promise<string | null> {
+  const db = getDb();
+  const waiting = and(eq(observations.status, "submitted"), ne(observations.id, observationId));
+  const [older] = await db
+    .select({ id: observations.id })
+    .from(observations)
+    .where(
+      and(
+        waiting,
+        or(
+          lt(observations.createdAt, receivedAt),
+          and(eq(observations.createdAt, receivedAt), lt(observations.id, observationId)),
+        ),
+      ),
+    )
+    .orderBy(desc(observations.createdAt), desc(observations.id))
+    .limit(1);
+  if (older) return older.id;
+  const [newest] = await db
+    .select({ id: observations.id })
+    .from(observations)
+    .where(waiting)
+    .orderBy(desc(observations.createdAt), desc(observations.id))
+    .limit(1);
+  return newest?.id ?? null;
 }
 
 /** How many observations wait in each tab of the Review desk. */

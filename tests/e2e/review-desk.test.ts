@@ -36,13 +36,14 @@ async function findFlaggedCount(): Promise<{ id: string; email: string }> {
   }
 }
 
-/** A count waiting for review that was traced on the disk, with its logged group count. */
+/** A demo count waiting for review that was traced on the disk (no PNG saved), with its logged group count. */
 async function findTracedCount(): Promise<{ id: string; groups: number }> {
   const client = createClient({ url: databaseUrl });
   try {
     const result = await client.execute(
+      // One of the demo's own drawings: other tests trace counts of their own (saved with a PNG) meanwhile.
       `select o.id, o.groups from observations o join tracings t on t.observation_id = o.id
-       where o.status = 'submitted' order by o.ut_date desc limit 1`,
+       where o.status = 'submitted' and o.source = 'demo' and t.png is null order by o.ut_date desc limit 1`,
     );
     const row = result.rows[0];
     if (!row || typeof row.id !== "string") throw new Error("The demo seed left no traced count to review.");
@@ -169,5 +170,10 @@ describe("the coordinator checks a traced count against its tracing", () => {
     // Reading only: the coordinator is not offered the observer's tracer.
     await expect(section.getByRole("link", { name: /Disk tracer|Trace the disk/ }).count()).resolves.toBe(0);
     await screenshot(page, "review-traced-count");
+
+    // On to the next count waiting, without going back to the desk.
+    await page.getByRole("link", { name: "Next waiting count →" }).click();
+    await page.waitForURL((url) => url.pathname.startsWith("/review/") && !url.pathname.endsWith(traced.id));
+    await page.getByRole("heading", { name: "Decision", exact: true }).waitFor();
   });
 });

@@ -8,6 +8,7 @@ import { GET as getQueue } from "@/app/api/v1/review/queue/route";
 import { getDb } from "@/db/client";
 import { listCapturedMail } from "@/db/queries/mail";
 import { listUnreadNotifications, markNotificationsReadByLink } from "@/db/queries/notifications";
+import { findNextAwaitingReview } from "@/db/queries/review";
 import { flagAwaitingReview, setOutlierThreshold } from "@/db/queries/review-flags";
 import { refreshSeriesForDays } from "@/db/queries/series";
 import { kCoefficients, notifications, observationFlags, observations, reviewDecisions } from "@/db/schema";
@@ -665,5 +666,48 @@ describe("GET /api/v1/review/decisions (the Decision log)", () => {
       expect(body.error.code).toBe("invalid_input");
       expect(JSON.stringify(body.error.issues)).toContain(says);
     }
+  });
+});
+
+describe("findNextAwaitingReview (the review page's 'Next waiting count')", () => {
+  it("walks the waiting counts newest arrival first, wraps round, and skips the count itself", async () => {
+    // Three more arrivals within the same millisecond or not: ties go by id.
+    for (const spots of [11, 12, 13]) await logCount(carol, { groups: 1, spots });
+    const all = await getDb()
+      .select({ id: observations.id, status: observations.status, createdAt: observations.createdAt })
+      .from(observations);
+    const byDeskOrder = [...all].sort(
+      (a, b) => b.createdAt.getTime() - a.createdAt.getTime() || (a.id < b.id ? 1 : a.id > b.id ? -1 : 0),
+    );
+    const waiting = byDeskOrder.filter((o) => o.status === "submitted");
+    expect(waiting.length).toBeGreaterThanOrEqual(3);
+    for (const [i, o] of waiting.entries()) {
+      const expected = waiting[(i + 1) % waiting.length]!.id;
+      expect(await findNextAwaitingReview({ observationId: o.id, receivedAt: o.createdAt })).toBe(expected);
+    }
+    // From a decided count, the next waiting one that arrived before it (or the newest).
+    for (const decided of byDeskOrder.filter((o) => o.status !== "submitted")) {
+      const position = byDeskOrder.indexOf(decided);
+      const expected = byDeskOrder.slice(position + 1).find((o) => o.status === "submitted") ?? waiting[0];
+      expect(await findNextAwaitingReview({ observationId: decided.id, receivedAt: decided.createdAt })).toBe(
+        expected!.id,
+      );
+    }
+  });
+
+  it("answers null when nothing else waits", async () => {
+    const waiting = await getDb()
+      .select({ id: observations.id })
+      .from(observations)
+      .where(eq(observations.status, "submitted"));
+    const [keep, ...rest] = waiting.map((w) => w.id);
+    for (let i = 0; i < rest.length; i += 200) {
+      expect((await decide({ action: "accept", observationIds: rest.slice(i, i + 200) })).status).toBe(200);
+    }
+    const [only] = await getDb()
+      .select({ id: observations.id, createdAt: observations.createdAt })
+      .from(observations)
+      .where(eq(observations.id, keep!));
+    expect(await findNextAwaitingReview({ observationId: only!.id, receivedAt: only!.createdAt })).toBeNull();
   });
 });

@@ -34,6 +34,10 @@ export default async function ObserverKPage({ params }: Props) {
               Instruments
             </Link>{" "}
             ·{" "}
+            <Link href={`/review/decisions?observerId=${id}`} className="text-corona-700 underline">
+              Review decisions
+            </Link>{" "}
+            ·{" "}
             <Link href="/observers" className="text-corona-700 underline">
               All observers
             </Link>

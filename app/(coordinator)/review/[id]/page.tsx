@@ -7,6 +7,7 @@ import { AuditTrail } from "@/components/review/audit-trail";
 import { StatusBadge } from "@/components/status-badge";
 import { TracingSummary } from "@/components/tracer/tracing-summary";
 import {
+  findNextAwaitingReview,
   getObservationForReview,
   listDecisionsOfObservation,
   listObservationPhotos,
@@ -32,11 +33,12 @@ export default async function ReviewObservationPage({ params }: { params: Promis
   const found = await getObservationForReview({ observationId: id });
   if (!found) notFound();
   const obs = found.observation;
-  const [history, decisions, tracing, photos] = await Promise.all([
+  const [history, decisions, tracing, photos, nextId] = await Promise.all([
     listObserverRecentCounts({ observerId: obs.observerId, limit: HISTORY_LIMIT }),
     listDecisionsOfObservation({ observationId: obs.id }),
     getTracingSummary({ observationId: obs.id }),
     listObservationPhotos({ observationId: obs.id }),
+    findNextAwaitingReview({ observationId: obs.id, receivedAt: obs.createdAt }),
   ]);
   const raw = 10 * obs.groups + obs.spots;
   const split = obs.northGroups !== null || obs.southGroups !== null;
@@ -67,9 +69,16 @@ export default async function ReviewObservationPage({ params }: { params: Promis
       <PageHeader
         title={`Count of ${obs.utDate} by ${found.observerName}`}
         lead={
-          <Link href="/review" className="text-corona-700 underline">
-            Back to the Review desk
-          </Link>
+          <span className="flex flex-wrap gap-4">
+            <Link href="/review" className="text-corona-700 underline">
+              Back to the Review desk
+            </Link>
+            {nextId ? (
+              <Link href={`/review/${nextId}`} className="text-corona-700 underline">
+                Next waiting count →
+              </Link>
+            ) : null}
+          </span>
         }
         actions={<StatusBadge status={obs.status} />}
       />
@@ -216,6 +225,7 @@ export default async function ReviewObservationPage({ params }: { params: Promis
             observationId={obs.id}
             available={listAvailableDecisions({ status: obs.status })}
             observerHasEmail={Boolean(found.observerEmail)}
+            nextId={nextId}
           />
           <AuditTrail decisions={decisions} receivedAt={obs.createdAt} />
         </div>

@@ -47,10 +47,13 @@ export function DecisionForm({
   observationId,
   available,
   observerHasEmail,
+  nextId,
 }: {
   observationId: string;
   available: ReviewDecisionAction[];
   observerHasEmail: boolean;
+  /** The count to review after this one, if any waits. */
+  nextId: string | null;
 }) {
   const router = useRouter();
   const [note, setNote] = useState("");
@@ -147,9 +150,15 @@ export function DecisionForm({
         <FormMessage tone={outcome.tone}>
           {outcome.text}{" "}
           {outcome.tone === "success" ? (
-            <Link href="/review" className="font-semibold underline">
-              Back to the queue
-            </Link>
+            nextId ? (
+              <Link href={`/review/${nextId}`} className="font-semibold underline">
+                Next waiting count
+              </Link>
+            ) : (
+              <Link href="/review" className="font-semibold underline">
+                Back to the queue
+              </Link>
+            )
           ) : null}
         </FormMessage>
       ) : null}

@@ -45,14 +45,17 @@ const column = createColumnHelper<ServerTableFeatures, DecisionLogEntry>();
 export function DecisionLog({
   observers,
   deciders,
+  initial = {},
 }: {
   observers: Array<{ id: string; displayName: string; code: string }>;
   deciders: Array<{ id: string; name: string }>;
+  /** Filters the page opens with (from its link). */
+  initial?: { observerId?: string; action?: string };
 }) {
   const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: 25 });
   const [sorting, setSorting] = useState<SortingState>([{ id: "decidedAt", desc: true }]);
-  const [action, setAction] = useState("");
-  const [observerId, setObserverId] = useState("");
+  const [action, setAction] = useState(initial.action ?? "");
+  const [observerId, setObserverId] = useState(initial.observerId ?? "");
   const [actorUserId, setActorUserId] = useState("");
   const [from, setFrom] = useState("");
   const [to, setTo] = useState("");

@@ -69,3 +69,44 @@ export function FormMessage({ tone, children }: { tone: "error" | "success" | "i
     </div>
   );
 }
+
+/** A labelled filter control above a table: the label on top, the control (a Select or Input) below. */
+export function FilterField({
+  id,
+  label,
+  className = "",
+  children,
+}: {
+  id: string;
+  label: string;
+  className?: string;
+  children: ReactNode;
+}) {
+  return (
+    <div className={`flex flex-col gap-1 text-sm ${className}`}>
+      <label htmlFor={id} className="font-medium text-ink-700">
+        {label}
+      </label>
+      {children}
+    </div>
+  );
+}
+
+/** A UT-date filter above a table; `onChange` gets the new "YYYY-MM-DD" (or "" when cleared). */
+export function DateFilter({
+  id,
+  label,
+  value,
+  onChange,
+}: {
+  id: string;
+  label: string;
+  value: string;
+  onChange: (value: string) => void;
+}) {
+  return (
+    <FilterField id={id} label={label}>
+      <Input id={id} type="date" value={value} onChange={(e) => onChange(e.target.value)} />
+    </FilterField>
+  );
+}

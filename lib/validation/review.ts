@@ -4,6 +4,13 @@ import type { ReviewAction } from "@/db/schema";
 import { FLAG_REASON_LIST } from "@/lib/review/flag-labels";
 
 import { capitalise } from "./fields";
+import {
+  pagingFields,
+  queryDay,
+  fromNotAfterTo,
+  RANGE_ORDER_ISSUE,
+  unknownQueryParameter,
+} from "./query-fields";
 
 /** What a coordinator can do to an observation from the Review desk. */
 export const REVIEW_DECISION_ACTIONS = ["accept", "query", "reject", "reopen"] as const;
@@ -62,11 +69,6 @@ export const reviewDecisionSchema = z
 
 export type ReviewDecisionInput = z.output<typeof reviewDecisionSchema>;
 
-const isoDay = z
-  .string()
-  .regex(/^\d{4}-\d{2}-\d{2}$/, { error: "Use a date like 2026-03-14." })
-  .refine((d) => !Number.isNaN(Date.parse(`${d}T00:00:00Z`)), { error: "That is not a calendar date." });
-
 export const REVIEW_QUEUE_SORTS = [
   "observedAt:desc",
   "observedAt:asc",
@@ -87,36 +89,20 @@ export const reviewQueueQuerySchema = z
       status: z
         .enum(["submitted", "queried"], { error: "status is submitted or queried." })
         .default("submitted"),
-      page: z.coerce
-        .number({ error: "page must be a number." })
-        .int()
-        .min(1, { error: "page starts at 1." })
-        .default(1),
-      pageSize: z.coerce
-        .number({ error: "pageSize must be a number." })
-        .int()
-        .min(1, { error: "pageSize must be at least 1." })
-        .max(100, { error: "pageSize can be at most 100." })
-        .default(25),
+      ...pagingFields({ defaultSize: 25, maxSize: 100 }),
       sort: z
         .enum(REVIEW_QUEUE_SORTS, { error: `sort is one of ${REVIEW_QUEUE_SORTS.join(", ")}.` })
         .default("receivedAt:desc"),
-      from: isoDay.optional(),
-      to: isoDay.optional(),
+      from: queryDay.optional(),
+      to: queryDay.optional(),
       observerId: z.string().trim().min(1).max(64, { error: "That is not an observer id." }).optional(),
       flag: z
         .enum(REVIEW_FLAG_FILTERS, { error: `flag is one of ${REVIEW_FLAG_FILTERS.join(", ")}.` })
         .optional(),
     },
-    {
-      error: (issue) =>
-        issue.code === "unrecognized_keys" ? `Unknown query parameter: ${issue.keys.join(", ")}.` : undefined,
-    },
+    { error: unknownQueryParameter },
   )
-  .refine((q) => !q.from || !q.to || q.from <= q.to, {
-    path: ["to"],
-    error: "'to' must not be before 'from'.",
-  });
+  .refine(fromNotAfterTo, RANGE_ORDER_ISSUE);
 
 export type ReviewQueueQueryInput = z.output<typeof reviewQueueQuerySchema>;
 
@@ -135,17 +121,7 @@ export const DECISION_LOG_SORTS = ["decidedAt:desc", "decidedAt:asc"] as const;
 export const decisionLogQuerySchema = z
   .strictObject(
     {
-      page: z.coerce
-        .number({ error: "page must be a number." })
-        .int()
-        .min(1, { error: "page starts at 1." })
-        .default(1),
-      pageSize: z.coerce
-        .number({ error: "pageSize must be a number." })
-        .int()
-        .min(1, { error: "pageSize must be at least 1." })
-        .max(100, { error: "pageSize can be at most 100." })
-        .default(25),
+      ...pagingFields({ defaultSize: 25, maxSize: 100 }),
       sort: z
         .enum(DECISION_LOG_SORTS, { error: `sort is one of ${DECISION_LOG_SORTS.join(", ")}.` })
         .default("decidedAt:desc"),
@@ -153,20 +129,14 @@ export const decisionLogQuerySchema = z
         .enum(DECISION_LOG_ACTIONS, { error: `action is one of ${DECISION_LOG_ACTIONS.join(", ")}.` })
         .optional(),
       /** First and last UT day of the decisions (not of the observations). */
-      from: isoDay.optional(),
-      to: isoDay.optional(),
+      from: queryDay.optional(),
+      to: queryDay.optional(),
       observerId: z.string().trim().min(1).max(64, { error: "That is not an observer id." }).optional(),
       actorUserId: z.string().trim().min(1).max(64, { error: "That is not a user id." }).optional(),
     },
-    {
-      error: (issue) =>
-        issue.code === "unrecognized_keys" ? `Unknown query parameter: ${issue.keys.join(", ")}.` : undefined,
-    },
+    { error: unknownQueryParameter },
   )
-  .refine((q) => !q.from || !q.to || q.from <= q.to, {
-    path: ["to"],
-    error: "'to' must not be before 'from'.",
-  });
+  .refine(fromNotAfterTo, RANGE_ORDER_ISSUE);
 
 export type DecisionLogQueryInput = z.output<typeof decisionLogQuerySchema>;
 

@@ -2,6 +2,8 @@ import { z } from "zod";
 
 import { toDayNumber } from "@/lib/counts/series";
 
+import { pagingFields, fromNotAfterTo, RANGE_ORDER_ISSUE, unknownQueryParameter } from "./query-fields";
+
 export const SERIES_KINDS = ["daily", "monthly", "yearly"] as const;
 export type SeriesKind = (typeof SERIES_KINDS)[number];
 
@@ -32,9 +34,6 @@ const BOUND = {
   yearly: z.string().regex(/^\d{4}$/, { error: "Use a year like 2026." }),
 } as const;
 
-const queryError = (issue: { code: string; keys?: string[] }) =>
-  issue.code === "unrecognized_keys" ? `Unknown query parameter: ${issue.keys?.join(", ")}.` : undefined;
-
 /**
  * Query string of GET /api/v1/series/<kind>: hemisphere, an inclusive
  * from/to range (days, months "YYYY-MM" or years), a page and a sort
@@ -61,26 +60,13 @@ function buildSeriesQuerySchema<K extends SeriesKind>(kind: K) {
         hemisphere: z.enum(["all", "N", "S"], { error: "hemisphere is all, N or S." }).default("all"),
         from: BOUND[kind].optional(),
         to: BOUND[kind].optional(),
-        page: z.coerce
-          .number({ error: "page must be a number." })
-          .int()
-          .min(1, { error: "page starts at 1." })
-          .default(1),
-        pageSize: z.coerce
-          .number({ error: "pageSize must be a number." })
-          .int()
-          .min(1, { error: "pageSize must be at least 1." })
-          .max(500, { error: "pageSize can be at most 500." })
-          .default(50),
+        ...pagingFields({ defaultSize: 50, maxSize: 500 }),
         sort: z.enum(sorts, { error: `sort is one of ${sorts.join(", ")}.` }).default(`${columns[0]}:desc`),
         format: z.enum(["json", "csv"], { error: "format is json or csv." }).default("json"),
       },
-      { error: queryError },
+      { error: unknownQueryParameter },
     )
-    .refine((q) => !q.from || !q.to || q.from <= q.to, {
-      path: ["to"],
-      error: "'to' must not be before 'from'.",
-    })
+    .refine(fromNotAfterTo, RANGE_ORDER_ISSUE)
     .transform((q) => {
       const [column, direction] = q.sort.split(":") as [SeriesSortColumn<K>, "asc" | "desc"];
       return { ...q, sort: { column, direction } };
@@ -100,5 +86,5 @@ export function parseSeriesPath(segment: string): { kind: SeriesKind; csv: boole
 
 export const observerChartQuerySchema = z.strictObject(
   { observerId: z.string().trim().min(1, { error: "Choose an observer." }).max(64).optional() },
-  { error: queryError },
+  { error: unknownQueryParameter },
 );

@@ -5,7 +5,8 @@ import Link from "next/link";
 import { useEffect, useMemo, useState } from "react";
 
 import { Button } from "@/components/ui/button";
-import { FormMessage, Input, Select } from "@/components/ui/field";
+import { DateFilter, FilterField, FormMessage, Input, Select } from "@/components/ui/field";
+import { ObserverTag } from "@/components/review/observer-tag";
 import { DataTable, type ServerTableFeatures } from "@/components/ui/data-table";
 import type { FlagReason } from "@/db/schema";
 import { formatRelativeNumber, formatUt } from "@/lib/format/time";
@@ -166,11 +167,7 @@ export function ReviewQueue({
       column.accessor("observerName", {
         header: "Observer",
         enableSorting: true,
-        cell: (info) => (
-          <span>
-            {info.getValue()} <span className="text-xs text-ink-500">{info.row.original.observerCode}</span>
-          </span>
-        ),
+        cell: (info) => <ObserverTag name={info.getValue()} code={info.row.original.observerCode} />,
       }),
       column.accessor("instrumentName", {
         header: "Instrument",
@@ -304,38 +301,25 @@ export function ReviewQueue({
       </div>
 
       <div className="flex flex-wrap items-end gap-3">
-        <div className="flex flex-col gap-1 text-sm">
-          <label htmlFor="queue-from" className="font-medium text-ink-700">
-            From (UT date)
-          </label>
-          <Input
-            id="queue-from"
-            type="date"
-            value={from}
-            onChange={(e) => {
-              setFrom(e.target.value);
-              resetView();
-            }}
-          />
-        </div>
-        <div className="flex flex-col gap-1 text-sm">
-          <label htmlFor="queue-to" className="font-medium text-ink-700">
-            To (UT date)
-          </label>
-          <Input
-            id="queue-to"
-            type="date"
-            value={to}
-            onChange={(e) => {
-              setTo(e.target.value);
-              resetView();
-            }}
-          />
-        </div>
-        <div className="flex flex-col gap-1 text-sm">
-          <label htmlFor="queue-observer" className="font-medium text-ink-700">
-            Observer
-          </label>
+        <DateFilter
+          id="queue-from"
+          label="From (UT date)"
+          value={from}
+          onChange={(value) => {
+            setFrom(value);
+            resetView();
+          }}
+        />
+        <DateFilter
+          id="queue-to"
+          label="To (UT date)"
+          value={to}
+          onChange={(value) => {
+            setTo(value);
+            resetView();
+          }}
+        />
+        <FilterField id="queue-observer" label="Observer">
           <Select
             id="queue-observer"
             value={observerId}
@@ -352,11 +336,8 @@ export function ReviewQueue({
               </option>
             ))}
           </Select>
-        </div>
-        <div className="flex flex-col gap-1 text-sm">
-          <label htmlFor="queue-flag" className="font-medium text-ink-700">
-            Flags
-          </label>
+        </FilterField>
+        <FilterField id="queue-flag" label="Flags">
           <Select
             id="queue-flag"
             value={flag}
@@ -375,7 +356,7 @@ export function ReviewQueue({
               </option>
             ))}
           </Select>
-        </div>
+        </FilterField>
         {filtered ? (
           <button
             type="button"

@@ -4,8 +4,9 @@ import { createColumnHelper, type PaginationState, type SortingState } from "@ta
 import Link from "next/link";
 import { useEffect, useMemo, useState } from "react";
 
+import { ObserverTag } from "@/components/review/observer-tag";
 import { DataTable, type ServerTableFeatures } from "@/components/ui/data-table";
-import { Input, Select } from "@/components/ui/field";
+import { DateFilter, FilterField, Select } from "@/components/ui/field";
 import { StatusBadge } from "@/components/status-badge";
 import type { ObservationStatus, ReviewAction } from "@/db/schema";
 import { ROLE_LABELS, type Role } from "@/lib/auth/roles";
@@ -147,11 +148,7 @@ export function DecisionLog({
       column.accessor("observerName", {
         header: "Observer",
         enableSorting: false,
-        cell: (info) => (
-          <span>
-            {info.getValue()} <span className="text-xs text-ink-500">{info.row.original.observerCode}</span>
-          </span>
-        ),
+        cell: (info) => <ObserverTag name={info.getValue()} code={info.row.original.observerCode} />,
       }),
       column.accessor("note", {
         header: "Why",
@@ -175,10 +172,7 @@ export function DecisionLog({
   return (
     <div className="flex flex-col gap-3">
       <div className="flex flex-wrap items-end gap-3">
-        <div className="flex w-52 flex-col gap-1 text-sm">
-          <label htmlFor="log-action" className="font-medium text-ink-700">
-            Decision
-          </label>
+        <FilterField id="log-action" label="Decision" className="w-52">
           <Select
             id="log-action"
             value={action}
@@ -194,11 +188,8 @@ export function DecisionLog({
               </option>
             ))}
           </Select>
-        </div>
-        <div className="flex w-60 flex-col gap-1 text-sm">
-          <label htmlFor="log-observer" className="font-medium text-ink-700">
-            Observer
-          </label>
+        </FilterField>
+        <FilterField id="log-observer" label="Observer" className="w-60">
           <Select
             id="log-observer"
             value={observerId}
@@ -214,11 +205,8 @@ export function DecisionLog({
               </option>
             ))}
           </Select>
-        </div>
-        <div className="flex w-52 flex-col gap-1 text-sm">
-          <label htmlFor="log-actor" className="font-medium text-ink-700">
-            Decided by
-          </label>
+        </FilterField>
+        <FilterField id="log-actor" label="Decided by" className="w-52">
           <Select
             id="log-actor"
             value={actorUserId}
@@ -234,35 +222,25 @@ export function DecisionLog({
               </option>
             ))}
           </Select>
-        </div>
-        <div className="flex flex-col gap-1 text-sm">
-          <label htmlFor="log-from" className="font-medium text-ink-700">
-            Decided from (UT)
-          </label>
-          <Input
-            id="log-from"
-            type="date"
-            value={from}
-            onChange={(e) => {
-              setFrom(e.target.value);
-              firstPage();
-            }}
-          />
-        </div>
-        <div className="flex flex-col gap-1 text-sm">
-          <label htmlFor="log-to" className="font-medium text-ink-700">
-            to
-          </label>
-          <Input
-            id="log-to"
-            type="date"
-            value={to}
-            onChange={(e) => {
-              setTo(e.target.value);
-              firstPage();
-            }}
-          />
-        </div>
+        </FilterField>
+        <DateFilter
+          id="log-from"
+          label="Decided from (UT)"
+          value={from}
+          onChange={(value) => {
+            setFrom(value);
+            firstPage();
+          }}
+        />
+        <DateFilter
+          id="log-to"
+          label="to"
+          value={to}
+          onChange={(value) => {
+            setTo(value);
+            firstPage();
+          }}
+        />
         {filtered ? (
           <button
             type="button"

@@ -70,7 +70,27 @@ export type ReviewQueueRow = {
   scaledValue: number;
   network: DayNetworkValue;
   flags: StoredFlag[];
+  /** The latest question sent to the observer about this count, if any. */
+  lastQuery: { note: string | null; askedAt: Date } | null;
 };
+
+/** The latest "queried" line of each observation's audit trail. */
+async function listLastQueries({ observationIds }: { observationIds: string[] }) {
+  const byObservation = new Map<string, { note: string | null; askedAt: Date }>();
+  if (observationIds.length === 0) return byObservation;
+  const rows = await getDb()
+    .select({
+      observationId: reviewDecisions.observationId,
+      note: reviewDecisions.note,
+      askedAt: reviewDecisions.createdAt,
+    })
+    .from(reviewDecisions)
+    .where(and(inArray(reviewDecisions.observationId, observationIds), eq(reviewDecisions.action, "queried")))
+    .orderBy(asc(reviewDecisions.createdAt), asc(reviewDecisions.id));
+  // In time order, so each observation keeps its newest.
+  for (const { observationId, ...query } of rows) byObservation.set(observationId, query);
+  return byObservation;
+}
 
 async function listFlagsOf({ observationIds, db = getDb() }: { observationIds: string[]; db?: Executor }) {
   const byObservation = new Map<string, StoredFlag[]>();
@@ -175,10 +195,11 @@ export async function listReviewQueue(query: ReviewQueueQueryInput) {
       .where(where),
   ]);
 
-  const [flags, kOf, networkOf] = await Promise.all([
+  const [flags, kOf, networkOf, lastQueries] = await Promise.all([
     listFlagsOf({ observationIds: rows.map((r) => r.id) }),
     loadCurrentKs({ observerIds: rows.map((r) => r.observerId) }),
     computeNetworkValues({ rows }),
+    listLastQueries({ observationIds: rows.map((r) => r.id) }),
   ]);
   const data: ReviewQueueRow[] = rows.map(({ instrumentId, ...row }) => {
     const k = kOf({ observerId: row.observerId, instrumentId });
@@ -188,6 +209,7 @@ export async function listReviewQueue(query: ReviewQueueQueryInput) {
       scaledValue: k * computeRawCount(row),
       network: networkOf(row),
       flags: flags.get(row.id) ?? [],
+      lastQuery: lastQueries.get(row.id) ?? null,
     };
   });
   return { rows: data, total: totals[0]?.total ?? 0 };

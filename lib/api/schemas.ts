@@ -310,6 +310,10 @@ export const reviewQueuePageSchema = z.object({
         .nullable()
         .meta({ description: "Median of the other observers' scaled counts that UT day, and how many." }),
       flags: z.array(z.object({ reason: z.enum(FLAG_REASONS), detail: z.string() })),
+      lastQuery: z
+        .object({ note: z.string().nullable(), askedAt: isoInstant })
+        .nullable()
+        .meta({ description: "The latest question sent to the observer about this count, if any." }),
     }),
   ),
   page: z.int(),

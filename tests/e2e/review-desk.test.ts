@@ -102,9 +102,13 @@ describe("the coordinator queries a flagged count and its observer reads the not
     await screenshot(page, "review-desk-queried");
   });
 
-  it("lists the query at the top of the Decision log, with who, why and the count it was on", async () => {
+  it("shows the question in the Queried tab and at the top of the Decision log", async () => {
     const page = await newPage(coordinator);
     await page.goto(`${baseUrl}/review`);
+    // While it waits for its observer, the Queried tab shows what was asked.
+    await page.getByRole("tab", { name: /Queried/ }).click();
+    await page.getByRole("table", { name: "Queried observations" }).getByText(NOTE).waitFor();
+    await screenshot(page, "review-desk-queried-tab");
     await page.getByRole("link", { name: "Decision log" }).click();
     await page.waitForURL("**/review/decisions");
     const table = page.getByRole("table", { name: "Review decisions, newest first" });

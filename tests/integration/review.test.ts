@@ -711,3 +711,41 @@ describe("findNextAwaitingReview (the review page's 'Next waiting count')", () =
     expect(await findNextAwaitingReview({ observationId: only!.id, receivedAt: only!.createdAt })).toBeNull();
   });
 });
+
+describe("the queue's 'Question sent'", () => {
+  it("shows the latest question on a queried count, and none on a count never queried", async () => {
+    const asked = (await logCount(bob, { observedAt: "2026-03-20T09:30:00Z", groups: 2, spots: 9 })).id;
+    const untouched = (await logCount(carol, { observedAt: "2026-03-20T10:30:00Z", groups: 2, spots: 8 })).id;
+    const note = "Was the 20 March count made through cloud?";
+    expect((await decide({ action: "query", observationIds: [asked], note })).status).toBe(200);
+
+    const queried = await (await queue("status=queried&from=2026-03-20&to=2026-03-20")).json();
+    const row = queried.data.find((r: { id: string }) => r.id === asked);
+    expect(row.lastQuery.note).toBe(note);
+    expect(Date.now() - Date.parse(row.lastQuery.askedAt)).toBeLessThan(60_000);
+
+    const waiting = await (await queue("status=submitted&from=2026-03-20&to=2026-03-20")).json();
+    expect(waiting.data.find((r: { id: string }) => r.id === untouched).lastQuery).toBeNull();
+
+    // Bob corrects it, it is queried again: the newer question is the one shown.
+    const corrected = await putObservation(
+      await apiRequest(`/api/v1/observations/${asked}`, {
+        method: "PUT",
+        userId: bob.user.id,
+        body: {
+          observedAt: "2026-03-20T09:30:00Z",
+          seeing: 2,
+          instrumentId: bob.instrument!.id,
+          groups: 2,
+          spots: 10,
+        },
+      }),
+      { params: Promise.resolve({ id: asked }) },
+    );
+    expect(corrected.status).toBe(200);
+    const again = "Thanks. And the second group: one spot or two?";
+    expect((await decide({ action: "query", observationIds: [asked], note: again })).status).toBe(200);
+    const requeried = await (await queue("status=queried&from=2026-03-20&to=2026-03-20")).json();
+    expect(requeried.data.find((r: { id: string }) => r.id === asked).lastQuery.note).toBe(again);
+  });
+});

@@ -30,6 +30,7 @@ export type QueueRow = {
   scaledValue: number;
   network: { median: number; n: number } | null;
   flags: Array<{ reason: FlagReason; detail: string }>;
+  lastQuery: { note: string | null; askedAt: string } | null;
 };
 
 type Tab = "submitted" | "queried";
@@ -169,15 +170,20 @@ export function ReviewQueue({
         enableSorting: true,
         cell: (info) => <ObserverTag name={info.getValue()} code={info.row.original.observerCode} />,
       }),
-      column.accessor("instrumentName", {
-        header: "Instrument",
-        enableSorting: false,
-        cell: (info) => (
-          <span className="block max-w-28 truncate" title={info.getValue()}>
-            {info.getValue()}
-          </span>
-        ),
-      }),
+      // The Queried tab makes room for the question: the instrument and 10g + s are on the count's page.
+      ...(tab === "queried"
+        ? []
+        : [
+            column.accessor("instrumentName", {
+              header: "Instrument",
+              enableSorting: false,
+              cell: (info) => (
+                <span className="block max-w-28 truncate" title={info.getValue()}>
+                  {info.getValue()}
+                </span>
+              ),
+            }),
+          ]),
       column.accessor("groups", {
         header: () => <span className="normal-case">g</span>,
         enableSorting: false,
@@ -186,11 +192,15 @@ export function ReviewQueue({
         header: () => <span className="normal-case">s</span>,
         enableSorting: false,
       }),
-      column.display({
-        id: "raw",
-        header: () => <span className="normal-case">10g + s</span>,
-        cell: (info) => 10 * info.row.original.groups + info.row.original.spots,
-      }),
+      ...(tab === "queried"
+        ? []
+        : [
+            column.display({
+              id: "raw",
+              header: () => <span className="normal-case">10g + s</span>,
+              cell: (info) => 10 * info.row.original.groups + info.row.original.spots,
+            }),
+          ]),
       column.accessor("scaledValue", {
         header: () => <span className="normal-case">k(10g + s)</span>,
         enableSorting: false,
@@ -221,8 +231,28 @@ export function ReviewQueue({
         enableSorting: false,
         cell: (info) => <FlagChips flags={info.getValue()} />,
       }),
+      // While a count waits for its observer, what they were asked.
+      ...(tab === "queried"
+        ? [
+            column.accessor("lastQuery", {
+              header: "Question sent",
+              enableSorting: false,
+              cell: (info) => {
+                const query = info.getValue();
+                return query ? (
+                  <span className="block w-56 whitespace-normal">
+                    <span className="block text-ink-800">{query.note ?? "—"}</span>
+                    <span className="block text-xs text-ink-500">{formatUt(query.askedAt)}</span>
+                  </span>
+                ) : (
+                  <span className="text-ink-400">—</span>
+                );
+              },
+            }),
+          ]
+        : []),
     ],
-    [allTicked, pageIds, selected],
+    [allTicked, pageIds, selected, tab],
   );
 
   async function acceptSelected() {

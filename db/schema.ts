@@ -369,8 +369,10 @@ export const reviewDecisions = sqliteTable(
   },
   (t) => [
     index("review_decisions_observation_idx").on(t.observationId, t.createdAt),
-    // The Decision log reads the newest decisions first, across all observations.
+    // The Decision log reads the newest decisions first, across all observations,
+    // and counts them by kind without reading the table.
     index("review_decisions_created_idx").on(t.createdAt),
+    index("review_decisions_action_created_idx").on(t.action, t.createdAt),
   ],
 );
 

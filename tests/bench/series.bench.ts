@@ -16,7 +16,9 @@
  *      concurrent clients from a worker thread, bounded in requests and time;
  *      the first page after a write, when the series is read again; and the
  *      same loads through the production server (`npm start`: its front
- *      server, then Next alone; built first if the build is stale).
+ *      server, then Next alone; built first if the build is stale);
+ *  (d) the Review desk's Decision log with one audit line per accepted
+ *      count: a page as opened, with each filter, and deep in the log.
  * Prints one line per figure and a final JSON line.
  */
 import { mkdtempSync, rmSync } from "node:fs";
@@ -494,6 +496,46 @@ async function measureHttp() {
 
 // ---------------------------------------------------------------------------
 
+/**
+ * The Decision log on an archive whose every accepted count has its
+ * acceptance in the audit trail (a million lines): one page of 25, as the
+ * coordinator opens it and with each filter. Not an aim of the issue; the
+ * log's cost must stay small beside the rest of the desk.
+ */
+async function measureDecisionLog(client: Awaited<ReturnType<typeof openArchive>>["$client"]) {
+  const { listDecisionLog } = await import("@/db/queries/review");
+  const { decisionLogQuerySchema } = await import("@/lib/validation/review");
+  const actor = (await client.execute("SELECT id FROM users LIMIT 1")).rows[0]!.id as string;
+  const load = await timeIt(() =>
+    client.execute({
+      sql: `INSERT INTO review_decisions (id, observation_id, actor_user_id, action, from_status, to_status, created_at)
+            SELECT lower(hex(randomblob(16))), id, ?, 'accepted', 'submitted', 'accepted', created_at + 72000000
+            FROM observations WHERE status = 'accepted'`,
+      args: [actor],
+    }),
+  );
+  report("setup: one audit line per accepted count (not measured work)", load.ms);
+  const observerId = (await client.execute("SELECT observer_id FROM observations LIMIT 1")).rows[0]!
+    .observer_id as string;
+  const cases: Array<[string, Record<string, string>]> = [
+    ["(d) Decision log, first page, newest first: median", {}],
+    ["(d) Decision log, one kind of decision: median", { action: "accepted" }],
+    ["(d) Decision log, one observer: median", { observerId }],
+    ["(d) Decision log, one year of decisions: median", { from: "2010-01-01", to: "2010-12-31" }],
+    ["(d) Decision log, page 2,000 (50,000 lines in): median", { page: "2000" }],
+  ];
+  const figures: Record<string, number> = {};
+  for (const [label, query] of cases) {
+    const parsed = decisionLogQuerySchema.parse(query);
+    const times: number[] = [];
+    for (let i = 0; i < 7; i++) times.push((await timeIt(() => listDecisionLog(parsed))).ms);
+    report(label, median(times));
+    figures[label.replace("(d) Decision log, ", "").replace(": median", "")] =
+      Math.round(median(times) * 10) / 10;
+  }
+  return figures;
+}
+
 async function main() {
   const started = performance.now();
   const { runFullRecompute } = await import("@/db/queries/recompute");
@@ -629,6 +671,7 @@ async function main() {
 
   const largeMedian = await measureAccepts({ label: "1,000,000 counts", accepts: 100 });
   const http = await measureHttp();
+  const decisionLog = await measureDecisionLog(client);
   client.close();
   rmSync(folder, { recursive: true, force: true });
   report("whole benchmark", (performance.now() - started) / 1000, "s");
@@ -668,6 +711,7 @@ async function main() {
           },
         ]),
       ),
+      decisionLogMedianMs: decisionLog,
       node: process.version,
     }),
   );

@@ -1,0 +1,1 @@
+CREATE INDEX `review_decisions_action_created_idx` ON `review_decisions` (`action`,`created_at`);

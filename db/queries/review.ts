@@ -7,6 +7,7 @@ import {
   desc,
   eq,
   exists,
+  gt,
   gte,
   inArray,
   lt,
@@ -217,13 +218,9 @@ export async function listReviewQueue(query: ReviewQueueQueryInput) {
 
 const DAY_MS = 86_400_000;
 
-/**
- * The Decision log: every line of the audit trail across the network, newest
- * first by default, a page at a time, with who decided, on which count and
- * why. `from` and `to` are UT days of the decisions themselves.
- */
-export async function listDecisionLog(query: DecisionLogQueryInput) {
-  const db = getDb();
+type DecisionLogFilter = Omit<DecisionLogQueryInput, "page" | "pageSize" | "format">;
+
+function decisionLogFilters(query: DecisionLogFilter): SQL[] {
   const filters: SQL[] = [];
   if (query.action) filters.push(eq(reviewDecisions.action, query.action));
   if (query.from)
@@ -232,32 +229,47 @@ export async function listDecisionLog(query: DecisionLogQueryInput) {
     filters.push(lt(reviewDecisions.createdAt, new Date(Date.parse(`${query.to}T00:00:00Z`) + DAY_MS)));
   if (query.observerId) filters.push(eq(observations.observerId, query.observerId));
   if (query.actorUserId) filters.push(eq(reviewDecisions.actorUserId, query.actorUserId));
-  const where = filters.length > 0 ? and(...filters) : undefined;
-  const direction = query.sort === "decidedAt:asc" ? asc : desc;
+  return filters;
+}
 
+/** The lines of the log in the asked order, with who decided, on which count and why. */
+function selectDecisionLines({ where, sort }: { where: SQL | undefined; sort: DecisionLogFilter["sort"] }) {
+  const direction = sort === "decidedAt:asc" ? asc : desc;
+  return getDb()
+    .select({
+      id: reviewDecisions.id,
+      decidedAt: reviewDecisions.createdAt,
+      action: reviewDecisions.action,
+      fromStatus: reviewDecisions.fromStatus,
+      toStatus: reviewDecisions.toStatus,
+      note: reviewDecisions.note,
+      actorName: users.name,
+      actorRole: users.role,
+      observationId: observations.id,
+      utDate: observations.utDate,
+      currentStatus: observations.status,
+      observerName: observers.displayName,
+      observerCode: observers.code,
+    })
+    .from(reviewDecisions)
+    .innerJoin(observations, eq(observations.id, reviewDecisions.observationId))
+    .innerJoin(observers, eq(observers.id, observations.observerId))
+    .innerJoin(users, eq(users.id, reviewDecisions.actorUserId))
+    .where(where)
+    .orderBy(direction(reviewDecisions.createdAt), direction(reviewDecisions.id));
+}
+
+/**
+ * The Decision log: every line of the audit trail across the network, newest
+ * first by default, a page at a time, with who decided, on which count and
+ * why. `from` and `to` are UT days of the decisions themselves.
+ */
+export async function listDecisionLog(query: DecisionLogQueryInput) {
+  const filters = decisionLogFilters(query);
+  const where = filters.length > 0 ? and(...filters) : undefined;
+  const db = getDb();
   const [rows, totals] = await Promise.all([
-    db
-      .select({
-        id: reviewDecisions.id,
-        decidedAt: reviewDecisions.createdAt,
-        action: reviewDecisions.action,
-        fromStatus: reviewDecisions.fromStatus,
-        toStatus: reviewDecisions.toStatus,
-        note: reviewDecisions.note,
-        actorName: users.name,
-        actorRole: users.role,
-        observationId: observations.id,
-        utDate: observations.utDate,
-        currentStatus: observations.status,
-        observerName: observers.displayName,
-        observerCode: observers.code,
-      })
-      .from(reviewDecisions)
-      .innerJoin(observations, eq(observations.id, reviewDecisions.observationId))
-      .innerJoin(observers, eq(observers.id, observations.observerId))
-      .innerJoin(users, eq(users.id, reviewDecisions.actorUserId))
-      .where(where)
-      .orderBy(direction(reviewDecisions.createdAt), direction(reviewDecisions.id))
+    selectDecisionLines({ where, sort: query.sort })
       .limit(query.pageSize)
       .offset((query.page - 1) * query.pageSize),
     // The join is needed only to filter by observer; without it the count reads the index alone.
@@ -270,6 +282,42 @@ export async function listDecisionLog(query: DecisionLogQueryInput) {
       : db.select({ total: count() }).from(reviewDecisions).where(where),
   ]);
   return { rows, total: totals[0]?.total ?? 0 };
+}
+
+/**
+ * Every line the filter matches, in batches, for the CSV download: each
+ * batch starts after the last line of the one before (time, then id), so
+ * the cost per line stays the same however long the log is.
+ */
+export async function* iterateDecisionLog(query: DecisionLogFilter, batchSize = 2_000) {
+  const filters = decisionLogFilters(query);
+  const newestFirst = query.sort !== "decidedAt:asc";
+  let after: { decidedAt: Date; id: string } | null = null;
+  for (;;) {
+    const cursor: SQL[] = after
+      ? [
+          newestFirst
+            ? or(
+                lt(reviewDecisions.createdAt, after.decidedAt),
+                and(eq(reviewDecisions.createdAt, after.decidedAt), lt(reviewDecisions.id, after.id)),
+              )!
+            : or(
+                gt(reviewDecisions.createdAt, after.decidedAt),
+                and(eq(reviewDecisions.createdAt, after.decidedAt), gt(reviewDecisions.id, after.id)),
+              )!,
+        ]
+      : [];
+    const all = [...filters, ...cursor];
+    const batch = await selectDecisionLines({
+      where: all.length > 0 ? and(...all) : undefined,
+      sort: query.sort,
+    }).limit(batchSize);
+    if (batch.length === 0) return;
+    yield batch;
+    const last = batch[batch.length - 1]!;
+    after = { decidedAt: last.decidedAt, id: last.id };
+    if (batch.length < batchSize) return;
+  }
 }
 
 export type DecisionLogRow = Awaited<ReturnType<typeof listDecisionLog>>["rows"][number];

@@ -64,8 +64,15 @@ export const DECISION_LOG_ROUTE: ApiRoute = {
     to: "Last UT day of the decisions to include.",
     observerId: "Only decisions on this observer's counts.",
     actorUserId: "Only decisions taken by this user.",
+    format: "json (a page) or csv (every matching line, ignoring page and pageSize).",
   },
-  responses: { 200: { description: "A page of the log.", schema: decisionLogPageSchema } },
+  responses: {
+    200: {
+      description: "A page of the log. With format=csv, every matching line as a download.",
+      schema: decisionLogPageSchema,
+      otherTypes: [{ contentType: "text/csv", description: "A header line, then one line per decision." }],
+    },
+  },
   example: { query: { action: "rejected", sort: "decidedAt:desc" } },
 };
 

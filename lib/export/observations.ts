@@ -55,7 +55,8 @@ function makeKLookup() {
 
 const round = (value: number, places: number) => Math.round(value * 10 ** places) / 10 ** places;
 
-function toStream(chunks: AsyncGenerator<string>): ReadableStream<Uint8Array> {
+/** Text chunks as a byte stream that stops reading when the client goes away. */
+export function toStream(chunks: AsyncGenerator<string>): ReadableStream<Uint8Array> {
   const encoder = new TextEncoder();
   return new ReadableStream<Uint8Array>({
     async pull(controller) {

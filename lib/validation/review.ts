@@ -133,6 +133,8 @@ export const decisionLogQuerySchema = z
       to: queryDay.optional(),
       observerId: z.string().trim().min(1).max(64, { error: "That is not an observer id." }).optional(),
       actorUserId: z.string().trim().min(1).max(64, { error: "That is not a user id." }).optional(),
+      /** csv: every matching line as a download, ignoring page and pageSize. */
+      format: z.enum(["json", "csv"], { error: "format is json or csv." }).default("json"),
     },
     { error: unknownQueryParameter },
   )

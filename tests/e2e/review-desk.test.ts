@@ -123,6 +123,12 @@ describe("the coordinator queries a flagged count and its observer reads the not
     await expect.poll(() => table.getByText(NOTE).count(), { timeout: 10_000 }).toBe(0);
     await page.getByLabel("Decision", { exact: true }).selectOption("queried");
     await table.getByText(NOTE).waitFor();
+    // The download carries the same filters and the whole question.
+    const href = await page.getByRole("link", { name: "Download CSV" }).getAttribute("href");
+    expect(href).toContain("action=queried");
+    const csv = await page.request.get(`${baseUrl}${href}`);
+    expect(csv.headers()["content-type"]).toContain("text/csv");
+    expect(await csv.text()).toContain(NOTE);
     await screenshot(page, "review-decision-log");
   });
 

@@ -642,6 +642,45 @@ describe("GET /api/v1/review/decisions (the Decision log)", () => {
     expect((await logPage(`from=${today}&to=${today}`)).total).toBe(everything.length);
   });
 
+  it("downloads every matching line as CSV, in the log's order, across batches", async () => {
+    const everything = (await logPage("pageSize=100")).data;
+    const res = await log("format=csv&pageSize=2");
+    expect(res.status).toBe(200);
+    expect(res.headers.get("content-type")).toContain("text/csv");
+    expect(res.headers.get("content-disposition")).toMatch(/attachment; filename="heliotally-decision-log-/);
+    const lines = (await res.text()).trimEnd().split("\r\n");
+    expect(lines[0]).toBe(
+      "decided_at_ut,decision,from_status,to_status,decided_by,decided_by_role,count_ut_date,observer_code,observer_name,why,status_now,observation_id",
+    );
+    // pageSize does not cut the download short.
+    expect(lines).toHaveLength(everything.length + 1);
+    expect(lines.slice(1).map((l) => l.split(",").at(-1))).toEqual(everything.map((e) => e.observationId));
+    expect(lines.find((l) => l.includes("Was it 17?"))).toContain(
+      ",Coordinator Quill,coordinator,2026-03-14,",
+    );
+
+    // The batches join without losing or repeating a line, oldest first too.
+    const { iterateDecisionLog } = await import("@/db/queries/review");
+    const ids: string[] = [];
+    for await (const batch of iterateDecisionLog({ sort: "decidedAt:asc" }, 3))
+      ids.push(...batch.map((d) => d.id));
+    expect(ids).toEqual(everything.map((e) => e.id).reverse());
+    const rejected: string[] = [];
+    for await (const batch of iterateDecisionLog({ sort: "decidedAt:desc", action: "rejected" }, 1))
+      rejected.push(...batch.map((d) => d.id));
+    expect(rejected).toEqual(everything.filter((e) => e.action === "rejected").map((e) => e.id));
+  });
+
+  it("keeps a note from being read as a spreadsheet formula", async () => {
+    const id = (await logCount(carol, { observedAt: "2026-03-22T09:30:00Z", groups: 1, spots: 3 })).id;
+    expect(
+      (await decide({ action: "reject", observationIds: [id], note: "=HYPERLINK(1) is not a reason" }))
+        .status,
+    ).toBe(200);
+    const csv = await (await log("format=csv&action=rejected")).text();
+    expect(csv).toContain("'=HYPERLINK(1) is not a reason");
+  });
+
   it("lets an admin in and refuses observers, educators, students and the signed-out", async () => {
     expect((await log("", admin.user.id)).status).toBe(200);
     for (const who of [alice, educator, student]) {

@@ -78,9 +78,18 @@ export function DecisionLog({
     if (from) raw.from = from;
     if (to) raw.to = to;
     const parsed = decisionLogQuerySchema.safeParse(raw);
-    return parsed.success
-      ? { query: new URLSearchParams(raw).toString(), error: null }
-      : { query: null, error: parsed.error.issues[0]?.message ?? "Check the filters." };
+    if (!parsed.success)
+      return { query: null, download: null, error: parsed.error.issues[0]?.message ?? "Check the filters." };
+    // The download: every line these filters match, in this order.
+    const download = new URLSearchParams(raw);
+    download.delete("page");
+    download.delete("pageSize");
+    download.set("format", "csv");
+    return {
+      query: new URLSearchParams(raw).toString(),
+      download: download.toString(),
+      error: null,
+    };
   }, [pagination, sorting, action, observerId, actorUserId, from, to]);
 
   useEffect(() => {
@@ -256,6 +265,15 @@ export function DecisionLog({
           >
             Clear filters
           </button>
+        ) : null}
+        {checked.download ? (
+          <a
+            href={`/api/v1/review/decisions?${checked.download}`}
+            className="ml-auto pb-2 text-sm font-semibold text-corona-700 underline"
+            download
+          >
+            Download CSV
+          </a>
         ) : null}
       </div>
 

@@ -1,5 +1,7 @@
 import { listDecisionLog } from "@/db/queries/review";
 import { requireRole } from "@/lib/auth/session";
+import { streamDecisionLogCsv } from "@/lib/export/decisions";
+import { attachmentHeaders } from "@/lib/export/observations";
 import { invalidInput } from "@/lib/http/errors";
 import { withIdempotency } from "@/lib/http/idempotency";
 import { readJsonBody } from "@/lib/http/read-json";
@@ -26,12 +28,20 @@ export const POST = handleRoute(async (request: Request) => {
   );
 });
 
-/** The Decision log: every line of the audit trail across the network, a page at a time. */
+/** The Decision log: every line of the audit trail across the network, a page at a time or (format=csv) all of it. */
 export const GET = handleRoute(async (request: Request) => {
   await requireRole(["coordinator"], { request });
   const parsed = decisionLogQuerySchema.safeParse(Object.fromEntries(new URL(request.url).searchParams));
   if (!parsed.success) throw invalidInput(parsed.error, "The query string needs attention.");
   const q = parsed.data;
+  if (q.format === "csv") {
+    return new Response(streamDecisionLogCsv(q), {
+      headers: attachmentHeaders({
+        fileName: `heliotally-decision-log-${new Date().toISOString().slice(0, 10)}.csv`,
+        type: "text/csv; charset=utf-8",
+      }),
+    });
+  }
   const { rows, total } = await listDecisionLog(q);
   return Response.json({ data: rows, page: q.page, pageSize: q.pageSize, total });
 });

@@ -533,6 +533,19 @@ async function measureDecisionLog(client: Awaited<ReturnType<typeof openArchive>
     figures[label.replace("(d) Decision log, ", "").replace(": median", "")] =
       Math.round(median(times) * 10) / 10;
   }
+  // The download of one year of decisions, read to its end as a browser would.
+  const { streamDecisionLogCsv } = await import("@/lib/export/decisions");
+  const year = decisionLogQuerySchema.parse({ from: "2010-01-01", to: "2010-12-31", format: "csv" });
+  const download = await timeIt(async () => {
+    let bytes = 0;
+    const reader = streamDecisionLogCsv(year).getReader();
+    for (let chunk = await reader.read(); !chunk.done; chunk = await reader.read())
+      bytes += chunk.value.length;
+    return bytes;
+  });
+  report("(d) Decision log CSV, one year of decisions, whole download", download.ms);
+  report("    bytes", download.result, "B");
+  figures["CSV, one year of decisions"] = Math.round(download.ms);
   return figures;
 }
 

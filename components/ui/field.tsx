@@ -110,3 +110,12 @@ export function DateFilter({
     </FilterField>
   );
 }
+
+/** Shown beside a table's filters once any is set; puts every filter back. */
+export function ClearFiltersButton({ onClear }: { onClear: () => void }) {
+  return (
+    <button type="button" className="pb-2 text-sm text-corona-700 underline" onClick={onClear}>
+      Clear filters
+    </button>
+  );
+}

@@ -5,7 +5,14 @@ import Link from "next/link";
 import { useEffect, useMemo, useState } from "react";
 
 import { Button } from "@/components/ui/button";
-import { DateFilter, FilterField, FormMessage, Input, Select } from "@/components/ui/field";
+import {
+  ClearFiltersButton,
+  DateFilter,
+  FilterField,
+  FormMessage,
+  Input,
+  Select,
+} from "@/components/ui/field";
 import { ObserverTag } from "@/components/review/observer-tag";
 import { DataTable, type ServerTableFeatures } from "@/components/ui/data-table";
 import type { FlagReason } from "@/db/schema";
@@ -388,19 +395,15 @@ export function ReviewQueue({
           </Select>
         </FilterField>
         {filtered ? (
-          <button
-            type="button"
-            className="pb-2 text-sm text-corona-700 underline"
-            onClick={() => {
+          <ClearFiltersButton
+            onClear={() => {
               setFrom("");
               setTo("");
               setObserverId("");
               setFlag("");
               resetView();
             }}
-          >
-            Clear filters
-          </button>
+          />
         ) : null}
       </div>
 

@@ -6,7 +6,7 @@ import { useEffect, useMemo, useState } from "react";
 
 import { ObserverTag } from "@/components/review/observer-tag";
 import { DataTable, type ServerTableFeatures } from "@/components/ui/data-table";
-import { DateFilter, FilterField, Select } from "@/components/ui/field";
+import { ClearFiltersButton, DateFilter, FilterField, Select } from "@/components/ui/field";
 import { StatusBadge } from "@/components/status-badge";
 import type { ObservationStatus, ReviewAction } from "@/db/schema";
 import { ROLE_LABELS, type Role } from "@/lib/auth/roles";
@@ -251,10 +251,8 @@ export function DecisionLog({
           }}
         />
         {filtered ? (
-          <button
-            type="button"
-            className="pb-2 text-sm text-corona-700 underline"
-            onClick={() => {
+          <ClearFiltersButton
+            onClear={() => {
               setAction("");
               setObserverId("");
               setActorUserId("");
@@ -262,9 +260,7 @@ export function DecisionLog({
               setTo("");
               firstPage();
             }}
-          >
-            Clear filters
-          </button>
+          />
         ) : null}
         {checked.download ? (
           <a

@@ -79,7 +79,12 @@ describe("decisionLogQuerySchema", () => {
   });
 
   it("defaults to the newest decisions first and reads numbers from the query string", () => {
-    expect(decisionLogQuerySchema.parse({})).toEqual({ page: 1, pageSize: 25, sort: "decidedAt:desc" });
+    expect(decisionLogQuerySchema.parse({})).toEqual({
+      page: 1,
+      pageSize: 25,
+      sort: "decidedAt:desc",
+      format: "json",
+    });
     expect(decisionLogQuerySchema.parse({ page: "3", pageSize: "50", action: "reopened" })).toMatchObject({
       page: 3,
       pageSize: 50,

@@ -3,8 +3,8 @@ import type { TracingDocument } from "@/lib/validation/tracing";
 
 /**
  * A saved tracing drawn from its vector form, as a plain SVG (no script):
- * the disk, its sky directions, the spots (penumbra ring, umbra dot) and
- * each group's number. Used where no PNG was saved with the tracing.
+ * the disk, its sky directions, measured areas (dashed), the spots
+ * (penumbra ring, umbra dot) and each group's number. Used where no PNG was saved with the tracing.
  */
 export function TracingDrawing({
   document,
@@ -47,6 +47,20 @@ export function TracingDrawing({
         >
           {mark.label}
         </text>
+      ))}
+      {picture.areas.map((area, index) => (
+        <ellipse
+          key={index}
+          cx={area.cx}
+          cy={area.cy}
+          rx={area.rx}
+          ry={area.ry}
+          transform={`rotate(${area.rotationDeg} ${area.cx} ${area.cy})`}
+          fill="none"
+          className={area.of === "group" ? "stroke-corona-600" : "stroke-ink-500"}
+          strokeWidth={lineWidth * 0.6}
+          strokeDasharray={`${lineWidth * 2} ${lineWidth * 1.5}`}
+        />
       ))}
       {picture.spots.map((spot, index) => (
         <g key={index}>

@@ -14,6 +14,8 @@ export type TracingPicture = {
   /** Sky directions just outside the limb, once the disk is oriented. */
   compass: Array<{ label: "N" | "E" | "S" | "W"; x: number; y: number }>;
   spots: Array<{ x: number; y: number; umbra: number; penumbra: number | null; grouped: boolean }>;
+  /** Measured areas (spots' and groups'), as the tracer drew them: rotated clockwise on the drawing. */
+  areas: Array<{ cx: number; cy: number; rx: number; ry: number; rotationDeg: number; of: "spot" | "group" }>;
   /** Where each group's number goes: just above its spots (or its area). */
   groupLabels: Array<{ number: number; x: number; y: number }>;
   /** A size for text and lines that reads the same whatever the drawing's scale. */
@@ -82,8 +84,14 @@ export function pictureOfTracing(document: TracingDocument): TracingPicture {
     }
   }
 
+  const areas: TracingPicture["areas"] = [
+    ...document.spots.flatMap((spot) => (spot.area ? [{ ...spot.area, of: "spot" as const }] : [])),
+    ...document.groups.flatMap((group) => (group.area ? [{ ...group.area, of: "group" as const }] : [])),
+  ];
+
   return {
     viewBox,
+    areas,
     disk: disk ? { cx: disk.cx, cy: disk.cy, r: disk.r } : null,
     compass,
     spots,

@@ -62,7 +62,15 @@ describe("pictureOfTracing", () => {
       spots: [
         { id: "a", x: 300, y: 320, umbraRadius: 4, penumbraRadius: 10, groupId: "g1", area: null },
         { id: "b", x: 340, y: 300, umbraRadius: 3, penumbraRadius: null, groupId: "g1", area: null },
-        { id: "c", x: 600, y: 600, umbraRadius: 5, penumbraRadius: null, groupId: null, area: null },
+        {
+          id: "c",
+          x: 600,
+          y: 600,
+          umbraRadius: 5,
+          penumbraRadius: null,
+          groupId: null,
+          area: { cx: 600, cy: 600, rx: 8, ry: 6, rotationDeg: 30 },
+        },
       ],
       groups: [
         { id: "g1", number: 7, zurichClass: "C", mcintoshClass: "Cao", area: null },
@@ -87,6 +95,11 @@ describe("pictureOfTracing", () => {
     expect(seven!.y).toBeLessThan(297);
     expect(eight).toMatchObject({ number: 8, x: 700 });
     expect(eight!.y).toBeLessThan(380);
+    // Spot c's and group 8's measured areas, drawn where the tracer put them.
+    expect(picture.areas).toEqual([
+      { cx: 600, cy: 600, rx: 8, ry: 6, rotationDeg: 30, of: "spot" },
+      { cx: 700, cy: 400, rx: 20, ry: 10, rotationDeg: 0, of: "group" },
+    ]);
   });
 
   it("shows the whole drawing, without directions, before the disk is fitted", () => {

@@ -8,27 +8,15 @@ import { ObserverTag } from "@/components/review/observer-tag";
 import { DataTable, type ServerTableFeatures } from "@/components/ui/data-table";
 import { ClearFiltersButton, DateFilter, FilterField, Select } from "@/components/ui/field";
 import { StatusBadge } from "@/components/status-badge";
-import type { ObservationStatus, ReviewAction } from "@/db/schema";
-import { ROLE_LABELS, type Role } from "@/lib/auth/roles";
+import type { DecisionLogRow } from "@/db/queries/review";
+import type { ReviewAction } from "@/db/schema";
+import { ROLE_LABELS } from "@/lib/auth/roles";
 import { formatUt } from "@/lib/format/time";
 import { REVIEW_ACTION_WORDS } from "@/lib/review/action-labels";
 import { DECISION_LOG_ACTIONS, decisionLogQuerySchema } from "@/lib/validation/review";
 
-export type DecisionLogEntry = {
-  id: string;
-  decidedAt: string;
-  action: ReviewAction;
-  fromStatus: ObservationStatus;
-  toStatus: ObservationStatus;
-  note: string | null;
-  actorName: string | null;
-  actorRole: Role;
-  observationId: string;
-  utDate: string;
-  currentStatus: ObservationStatus;
-  observerName: string;
-  observerCode: string;
-};
+/** A line of the log as the route sends it (JSON: the time as ISO text). */
+export type DecisionLogEntry = Omit<DecisionLogRow, "decidedAt"> & { decidedAt: string };
 
 type Page = { data: DecisionLogEntry[]; total: number };
 

@@ -1,9 +1,10 @@
 "use client";
 
 import { createColumnHelper, type PaginationState, type SortingState } from "@tanstack/react-table";
-import { useEffect, useMemo, useState } from "react";
+import { useMemo, useState } from "react";
 
 import { DataTable, type ServerColumn, type ServerTableFeatures } from "@/components/ui/data-table";
+import { useServerPage } from "@/components/ui/use-server-page";
 import { Input, Select } from "@/components/ui/field";
 import type { DailySeriesRow, MonthlySeriesRow, YearlySeriesRow } from "@/db/queries/series-read";
 import { formatRelativeNumber } from "@/lib/format/time";
@@ -75,8 +76,6 @@ export function SeriesTables() {
   const [to, setTo] = useState("");
   const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: 50 });
   const [sorting, setSorting] = useState<SortingState>([{ id: "day", desc: true }]);
-  const [page, setPage] = useState<Page>({ kind: "daily", data: [], total: 0 });
-  const [answered, setAnswered] = useState<{ query: string; error: string | null } | null>(null);
 
   const bound = BOUND_INPUT[kind];
   const boundError =
@@ -102,24 +101,20 @@ export function SeriesTables() {
     return `${kind}?${params.toString()}`;
   }, [filters, sorting, pagination, kind]);
 
-  useEffect(() => {
-    if (boundError) return;
-    const controller = new AbortController();
-    fetch(`/api/v1/series/${query}`, { signal: controller.signal })
-      .then(async (res) => {
-        const body = await res.json();
-        if (!res.ok) throw new Error(body?.error?.message ?? "The table could not be loaded.");
-        setPage({ ...(body as Omit<Page, "kind">), kind: query.slice(0, query.indexOf("?")) as SeriesKind });
-        setAnswered({ query, error: null });
-      })
-      .catch((e: unknown) => {
-        if (!controller.signal.aborted) setAnswered({ query, error: (e as Error).message });
-      });
-    return () => controller.abort();
-  }, [query, boundError]);
-
-  const loading = !boundError && answered?.query !== query;
-  const error = answered?.query === query ? answered.error : null;
+  const shown = useServerPage<Omit<Page, "kind">>({
+    url: boundError ? null : `/api/v1/series/${query}`,
+    initial: { data: [], total: 0 },
+    failure: "The table could not be loaded.",
+  });
+  const { loading, error } = shown;
+  // The kind of the rows shown, from the URL they came from: they stay on
+  // screen, with their own columns, until the next kind's page arrives.
+  const page: Page = {
+    ...shown.page,
+    kind: shown.shownUrl
+      ? (shown.shownUrl.slice("/api/v1/series/".length).split("?")[0] as SeriesKind)
+      : "daily",
+  };
   const resetPage = () => setPagination((p) => ({ ...p, pageIndex: 0 }));
 
   return (

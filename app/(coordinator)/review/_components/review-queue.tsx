@@ -2,7 +2,7 @@
 
 import { createColumnHelper, type PaginationState, type SortingState } from "@tanstack/react-table";
 import Link from "next/link";
-import { useEffect, useMemo, useState } from "react";
+import { useMemo, useState } from "react";
 
 import { Button } from "@/components/ui/button";
 import {
@@ -15,6 +15,7 @@ import {
 } from "@/components/ui/field";
 import { ObserverTag } from "@/components/review/observer-tag";
 import { DataTable, type ServerTableFeatures } from "@/components/ui/data-table";
+import { useServerPage } from "@/components/ui/use-server-page";
 import type { FlagReason } from "@/db/schema";
 import { formatRelativeNumber, formatUt } from "@/lib/format/time";
 import { FLAG_LABELS, FLAG_REASON_LIST } from "@/lib/review/flag-labels";
@@ -64,8 +65,6 @@ export function ReviewQueue({
   const [to, setTo] = useState("");
   const [observerId, setObserverId] = useState("");
   const [flag, setFlag] = useState("");
-  const [page, setPage] = useState<Page>({ data: [], total: 0, counts: initialCounts });
-  const [answered, setAnswered] = useState<{ query: string; error: string | null } | null>(null);
   // Bumped after a decision so the same query is fetched again.
   const [reload, setReload] = useState(0);
   const [selected, setSelected] = useState<Set<string>>(new Set());
@@ -89,26 +88,12 @@ export function ReviewQueue({
   }, [tab, pagination, sorting, from, to, observerId, flag]);
 
   const dateError = from && to && from > to ? "The end date is before the start date." : null;
-  const fetchKey = `${query}#${reload}`;
-
-  useEffect(() => {
-    if (dateError) return;
-    const controller = new AbortController();
-    fetch(`/api/v1/review/queue?${query}`, { signal: controller.signal })
-      .then(async (res) => {
-        const body = await res.json();
-        if (!res.ok) throw new Error(body?.error?.message ?? "The queue could not be loaded.");
-        setPage(body as Page);
-        setAnswered({ query: fetchKey, error: null });
-      })
-      .catch((e: unknown) => {
-        if (!controller.signal.aborted) setAnswered({ query: fetchKey, error: (e as Error).message });
-      });
-    return () => controller.abort();
-  }, [query, fetchKey, dateError]);
-
-  const loading = !dateError && answered?.query !== fetchKey;
-  const error = answered?.query === fetchKey ? answered.error : null;
+  const { page, loading, error } = useServerPage<Page>({
+    url: dateError ? null : `/api/v1/review/queue?${query}`,
+    initial: { data: [], total: 0, counts: initialCounts },
+    failure: "The queue could not be loaded.",
+    refresh: reload,
+  });
 
   // A new page, tab or filter starts with nothing ticked: a bulk accept only
   // ever covers rows the coordinator can see.

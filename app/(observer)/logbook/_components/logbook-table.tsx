@@ -2,9 +2,10 @@
 
 import { createColumnHelper, type PaginationState, type SortingState } from "@tanstack/react-table";
 import Link from "next/link";
-import { useEffect, useMemo, useState } from "react";
+import { useMemo, useState } from "react";
 
 import { DataTable, type ServerTableFeatures } from "@/components/ui/data-table";
+import { useServerPage } from "@/components/ui/use-server-page";
 import { Input } from "@/components/ui/field";
 import { formatLocal, formatRelativeNumber, formatUt } from "@/lib/format/time";
 
@@ -37,10 +38,8 @@ export function LogbookTable({ timeZone }: { timeZone: string }) {
   const [sorting, setSorting] = useState<SortingState>([{ id: "observedAt", desc: true }]);
   const [from, setFrom] = useState("");
   const [to, setTo] = useState("");
-  const [page, setPage] = useState<Page>({ data: [], total: 0 });
   // The query a result belongs to: the table is loading while the current
   // query differs from the one whose answer is shown.
-  const [answered, setAnswered] = useState<{ query: string; error: string | null } | null>(null);
 
   const columns = useMemo(
     () => [
@@ -106,24 +105,11 @@ export function LogbookTable({ timeZone }: { timeZone: string }) {
     return params.toString();
   }, [pagination, sorting, from, to]);
 
-  useEffect(() => {
-    if (dateError) return;
-    const controller = new AbortController();
-    fetch(`/api/v1/observations?${query}`, { signal: controller.signal })
-      .then(async (res) => {
-        const body = await res.json();
-        if (!res.ok) throw new Error(body?.error?.message ?? "The Logbook could not be loaded.");
-        setPage(body as Page);
-        setAnswered({ query, error: null });
-      })
-      .catch((e: unknown) => {
-        if (!controller.signal.aborted) setAnswered({ query, error: (e as Error).message });
-      });
-    return () => controller.abort();
-  }, [query, dateError]);
-
-  const loading = !dateError && answered?.query !== query;
-  const error = answered?.query === query ? answered.error : null;
+  const { page, loading, error } = useServerPage<Page>({
+    url: dateError ? null : `/api/v1/observations?${query}`,
+    initial: { data: [], total: 0 },
+    failure: "The Logbook could not be loaded.",
+  });
 
   const filtered = Boolean(from || to);
 

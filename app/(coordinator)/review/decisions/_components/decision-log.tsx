@@ -2,10 +2,11 @@
 
 import { createColumnHelper, type PaginationState, type SortingState } from "@tanstack/react-table";
 import Link from "next/link";
-import { useEffect, useMemo, useState } from "react";
+import { useMemo, useState } from "react";
 
 import { ObserverTag } from "@/components/review/observer-tag";
 import { DataTable, type ServerTableFeatures } from "@/components/ui/data-table";
+import { useServerPage } from "@/components/ui/use-server-page";
 import { ClearFiltersButton, DateFilter, FilterField, Select } from "@/components/ui/field";
 import { StatusBadge } from "@/components/status-badge";
 import type { DecisionLogRow } from "@/db/queries/review";
@@ -48,8 +49,6 @@ export function DecisionLog({
   const [actorUserId, setActorUserId] = useState("");
   const [from, setFrom] = useState("");
   const [to, setTo] = useState("");
-  const [page, setPage] = useState<Page>({ data: [], total: 0 });
-  const [answered, setAnswered] = useState<{ query: string; error: string | null } | null>(null);
 
   // The same schema the route reads the query string with: a bad filter is
   // explained here and never sent.
@@ -80,25 +79,13 @@ export function DecisionLog({
     };
   }, [pagination, sorting, action, observerId, actorUserId, from, to]);
 
-  useEffect(() => {
-    const query = checked.query;
-    if (query === null) return;
-    const controller = new AbortController();
-    fetch(`/api/v1/review/decisions?${query}`, { signal: controller.signal })
-      .then(async (res) => {
-        const body = await res.json();
-        if (!res.ok) throw new Error(body?.error?.message ?? "The Decision log could not be loaded.");
-        setPage(body as Page);
-        setAnswered({ query, error: null });
-      })
-      .catch((e: unknown) => {
-        if (!controller.signal.aborted) setAnswered({ query, error: (e as Error).message });
-      });
-    return () => controller.abort();
-  }, [checked.query]);
-
-  const loading = checked.query !== null && answered?.query !== checked.query;
-  const error = checked.error ?? (answered?.query === checked.query ? answered.error : null);
+  const shown = useServerPage<Page>({
+    url: checked.query === null ? null : `/api/v1/review/decisions?${checked.query}`,
+    initial: { data: [], total: 0 },
+    failure: "The Decision log could not be loaded.",
+  });
+  const { page, loading } = shown;
+  const error = checked.error ?? shown.error;
   const firstPage = () => setPagination((p) => ({ ...p, pageIndex: 0 }));
   const filtered = Boolean(action || observerId || actorUserId || from || to);
 

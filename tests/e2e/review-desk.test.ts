@@ -136,6 +136,8 @@ describe("the coordinator queries a flagged count and its observer reads the not
     const page = await newPage(observer);
     await signIn(page, baseUrl, target.email);
     await page.goto(`${baseUrl}/logbook`);
+    // Their k was fitted for their instrument at set-up; the Logbook says which one is in use.
+    await page.getByText(/Your current k is \d\.\d{3}\./).waitFor();
     const inbox = page.getByRole("region", { name: /From your coordinator/ });
     await inbox.getByText(NOTE, { exact: false }).waitFor();
     await screenshot(page, "logbook-inbox");

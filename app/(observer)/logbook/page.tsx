@@ -2,7 +2,7 @@ import type { Metadata } from "next";
 
 import { PageHeader } from "@/components/layout/app-shell";
 import { ButtonLink } from "@/components/ui/button";
-import { getCurrentKs } from "@/db/queries/observers";
+import { getCurrentKs, listInstrumentsByObserver } from "@/db/queries/observers";
 import { requireObserver } from "@/lib/auth/session";
 
 import { OpenSessionBanner } from "@/app/(observer)/class/_components/open-session-banner";
@@ -13,8 +13,14 @@ export const metadata: Metadata = { title: "Logbook" };
 
 export default async function LogbookPage() {
   const { user, observer } = await requireObserver();
-  const kFor = await getCurrentKs({ observerId: observer.id });
-  const current = kFor("");
+  const [kFor, instruments] = await Promise.all([
+    getCurrentKs({ observerId: observer.id }),
+    listInstrumentsByObserver({ observerId: observer.id }),
+  ]);
+  // k is fitted per instrument: the lead names the one in use for each.
+  const computed = instruments
+    .map((instrument) => ({ name: instrument.name, current: kFor(instrument.id) }))
+    .filter((entry) => entry.current.computed);
   return (
     <>
       <PageHeader
@@ -22,9 +28,11 @@ export default async function LogbookPage() {
         lead={
           <>
             Every count you have logged, newest first. Observer code <strong>{observer.code}</strong>.{" "}
-            {current.computed
-              ? `Your current k is ${current.k.toFixed(3)}.`
-              : "Your k is 1.0 until your coordinator computes one from your counts."}
+            {computed.length === 0
+              ? "Your k is 1.0 until your coordinator computes one from your counts."
+              : computed.length === 1
+                ? `Your current k is ${computed[0]!.current.k.toFixed(3)}.`
+                : `Your current k: ${computed.map((e) => `${e.current.k.toFixed(3)} (${e.name})`).join(", ")}.`}
           </>
         }
         actions={<ButtonLink href="/logbook/new">Log a count</ButtonLink>}

@@ -15,7 +15,7 @@ const MIGRATIONS_FOLDER = path.join(process.cwd(), "drizzle");
 export async function prepareDatabase({ db, url }: { db: Database; url: string }): Promise<void> {
   if (url.startsWith("file:")) {
     // Write-ahead logging lets readers carry on while one writer commits;
-    // NORMAL sync is the usual pairing with WAL (durable at checkpoints).
+    // The bulk writes pair it with NORMAL sync (ownConnection, db/client.ts).
     await db.$client.execute("PRAGMA journal_mode = WAL");
   }
   await migrate(db, { migrationsFolder: MIGRATIONS_FOLDER });

@@ -1,10 +1,12 @@
 import "server-only";
 
+import type { Client, InValue, Transaction } from "@libsql/client";
+
 import { formatDayNumber } from "@/lib/counts/series";
 import { makeOrderedIdMaker } from "@/lib/ids/ordered-ids";
 import { countsFromPacks, sliceByKey, type AcceptedCounts } from "@/lib/series/accepted-counts";
 import { packsFromPackedText, type CountPack } from "@/lib/series/count-packs";
-import { fitAllPeriods, type KFitReference } from "@/lib/series/k-fit-helper";
+import { fitAllPeriods, startHelperWrite, type KFitReference } from "@/lib/series/k-fit-helper";
 import { buildKLookup, buildStoredKResolver, type KFit, type KUnit } from "@/lib/series/k-fit";
 import {
   appendDailyRows,
@@ -18,7 +20,7 @@ import { PACKED_COUNT_SQL } from "@/lib/series/packed-count";
 import { NETWORK_REFERENCE, type KSettings } from "@/lib/validation/k-settings";
 
 import { writeAllOrNothing, type WriteStep } from "../bulk-write";
-import { getDb } from "../client";
+import { embeddedFileOf, getDb } from "../client";
 import { countPackWrites, readTrustedPacks } from "./count-packs";
 import { createJob, findActiveJob, finishJob, markJobRunning, reportJobProgress, type JobView } from "./jobs";
 import { flagAwaitingReview } from "./review-flags";
@@ -62,6 +64,74 @@ export function packedBatchSql({ hint, instruments }: { hint: string; instrument
 export type Units = { units: KUnit[]; observerOfUnit: Int32Array; labelOf: (unit: number) => string };
 
 /**
+ * The accepted counts as the last full recompute of this process read them,
+ * kept for the next one, which then reads nothing but the instruments and
+ * one number: a million counts are 20 MB of arrays, and rebuilding them from
+ * the stored packs is most of a recompute's read.
+ *
+ * The key says when they still hold. Every change to an accepted count, by
+ * any process, takes a new seq in count_pack_changes (the triggers of
+ * drizzle/0005_count-packs.sql), and AUTOINCREMENT never hands out a seq
+ * twice, so the table's last seq (in sqlite_sequence) names the accepted
+ * counts' version. With it go the instruments and their observers in unit
+ * order, which the arrays' unit numbers refer to, and the number and last
+ * rowid of the stored packs, so packs removed or written anew by anything
+ * but this process's recompute are read again. A pack damaged in place is
+ * not seen until a recompute reads the packs again (after a restart, or
+ * after any change to an accepted count); it is then rebuilt.
+ */
+export type KeptCounts = {
+  key: string;
+  counts: AcceptedCounts;
+  countOfUnit: Int32Array;
+  units: KUnit[];
+  observerOfUnit: Int32Array;
+};
+
+const keptCounts = new WeakMap<object, KeptCounts>();
+
+export type CountsVersion = { seq: number; packs: number; lastPack: number };
+
+async function readCountsVersion(reader: Pick<Transaction, "execute">): Promise<CountsVersion> {
+  const result = await reader.execute(
+    `SELECT (SELECT seq FROM sqlite_sequence WHERE name = 'count_pack_changes') AS seq,
+            (SELECT count(*) FROM count_packs) AS packs, (SELECT max(rowid) FROM count_packs) AS lastPack`,
+  );
+  const row = result.rows[0];
+  return { seq: Number(row?.seq ?? 0), packs: Number(row?.packs ?? 0), lastPack: Number(row?.lastPack ?? 0) };
+}
+
+/** `instruments`: every instrument and its observer, in unit order. */
+function keyOfCounts({ version, instruments }: { version: CountsVersion; instruments: string }): string {
+  return `${version.seq}|${version.packs}|${version.lastPack}|${instruments}`;
+}
+
+/**
+ * Keeps what a recompute read once its write is done. Its own write stored
+ * packs anew, so the key takes the packs as they are now, provided no count
+ * changed since the read (the seq is the one read); else nothing is kept.
+ */
+async function keepCounts({
+  client,
+  read,
+  kept,
+}: {
+  client: Client;
+  /** The version and instruments the recompute read. */
+  read: { version: CountsVersion; instruments: string };
+  kept: Omit<KeptCounts, "key">;
+}): Promise<void> {
+  const now = await readCountsVersion(client);
+  if (now.seq !== read.version.seq) keptCounts.delete(client);
+  else keptCounts.set(client, { key: keyOfCounts({ version: now, instruments: read.instruments }), ...kept });
+}
+
+/** Drops the kept counts, so the next recompute reads them from the database (as after a restart). */
+export function forgetKeptCounts(): void {
+  keptCounts.delete(getDb().$client);
+}
+
+/**
  * Every accepted count, in day order, as typed arrays, with the writes that
  * keep the count packs current (to be made in the recompute's write
  * transaction). Units are instruments, each belonging to one observer.
@@ -74,8 +144,19 @@ export type Units = { units: KUnit[]; observerOfUnit: Int32Array; labelOf: (unit
  * packedBatchSql); their packs are then written anew. One read transaction
  * keeps the instruments, packs, changes and counts on one snapshot.
  */
-export async function loadAcceptedCounts(): Promise<
-  { counts: AcceptedCounts; countOfUnit: Int32Array; packWrites: WriteStep[] } & Units
+export async function loadAcceptedCounts({ reuse = null }: { reuse?: KeptCounts | null } = {}): Promise<
+  {
+    counts: AcceptedCounts;
+    countOfUnit: Int32Array;
+    packWrites: WriteStep[];
+    /** Names the accepted counts read: equal keys, equal counts (see KeptCounts). */
+    key: string;
+    /** True when `reuse` still held the accepted counts and nothing was read again. */
+    reused: boolean;
+    /** What the key was made of (keepCounts). */
+    version: CountsVersion;
+    instruments: string;
+  } & Units
 > {
   const client = getDb().$client;
   const units: KUnit[] = [];
@@ -87,6 +168,9 @@ export async function loadAcceptedCounts(): Promise<
   const rebuilt: Array<{ instrumentId: string; count: number; bytes: Uint8Array }> = [];
   const dropped: string[] = [];
   let changesUpTo: number | null = null;
+  let key = "";
+  let version: CountsVersion = { seq: 0, packs: 0, lastPack: 0 };
+  let instruments = "";
   const hint = await acceptedPackedIndexHint();
   const reader = await client.transaction("read");
   try {
@@ -103,6 +187,21 @@ export async function loadAcceptedCounts(): Promise<
       if (!observerIndex.has(observerId)) observerIndex.set(observerId, observerIndex.size);
       observerOfUnitList.push(observerIndex.get(observerId)!);
       packOfUnit.push(null);
+    }
+    version = await readCountsVersion(reader);
+    instruments = instrumentRows.rows
+      .map((row) => `${String(row.instrumentId)}:${String(row.observerId)}`)
+      .join(",");
+    key = keyOfCounts({ version, instruments });
+    if (reuse?.key === key) {
+      return {
+        ...reuse,
+        packWrites: [],
+        reused: true,
+        version,
+        instruments,
+        labelOf: (unit) => labels[unit] ?? `unit ${unit}`,
+      };
     }
     const trusted = await readTrustedPacks(reader);
     changesUpTo = trusted.changesUpTo;
@@ -158,6 +257,10 @@ export async function loadAcceptedCounts(): Promise<
     counts: countsFromPacks(withCounts),
     countOfUnit,
     packWrites: countPackWrites({ rebuilt, dropped, changesUpTo }),
+    key,
+    reused: false,
+    version,
+    instruments,
     units,
     observerOfUnit: Int32Array.from(observerOfUnitList),
     labelOf: (unit) => labels[unit] ?? `unit ${unit}`,
@@ -173,6 +276,10 @@ export type RecomputeSummary = {
   months: number;
   notes: string[];
   timingsMs: Record<string, number>;
+  /** The thread that wrote the result: the helper as it was made, or the server's at the end (openResultWriter). */
+  writtenOn: "helper" | "server";
+  /** True when the accepted counts were those the last recompute read (KeptCounts). */
+  countsReused: boolean;
   /** Threads the k fit ran on (1 until the helper thread is ready, or without it). */
   kFitThreads: 1 | 2;
 };
@@ -216,13 +323,104 @@ function inKeyOrder<Row extends { hemisphere: Hemisphere }>(rows: readonly Row[]
     .flatMap((hemisphere) => rows.filter((row) => row.hemisphere === hemisphere));
 }
 
+const K_COLUMNS = [
+  "id",
+  "observer_id",
+  "instrument_id",
+  "period_start",
+  "period_end",
+  "k",
+  "sigma",
+  "common_days",
+  "method",
+  "period_kind",
+  "reference",
+];
+
+/** The rows of k_coefficients for the fitted k values. */
+function kCoefficientRows({
+  fitted,
+  units,
+  settings,
+}: {
+  fitted: { fits: KFit[]; referenceLabel: (role: KFit["role"]) => string };
+  units: KUnit[];
+  settings: KSettings;
+}): InValue[][] {
+  const makeId = makeOrderedIdMaker({ startMs: Date.now() });
+  // In the order of the observer–period index (and ordered ids for the
+  // key): each index then grows at its end instead of all over its pages,
+  // which measured about a quarter faster for 5,000 coefficients.
+  const observerOf = (fit: KFit) => units[fit.unit]!.observerId;
+  const kInIndexOrder = [...fitted.fits].sort((a, b) =>
+    observerOf(a) < observerOf(b) ? -1 : observerOf(a) > observerOf(b) ? 1 : a.periodIndex - b.periodIndex,
+  );
+  return kInIndexOrder.map((fit, position) => {
+    const period = describePeriod({ index: fit.periodIndex, kind: settings.periodKind });
+    const unit = units[fit.unit]!;
+    return [
+      makeId(position),
+      unit.observerId,
+      unit.instrumentId,
+      period.start,
+      period.end,
+      fit.k,
+      fit.sigma,
+      fit.commonDays,
+      settings.method,
+      settings.periodKind,
+      fitted.referenceLabel(fit.role),
+    ];
+  });
+}
+
+/**
+ * Where the recompute's result goes, all of it or none. With the helper
+ * thread ready and an embedded database, each part goes to the helper as
+ * soon as it is made (startHelperWrite, lib/series/k-fit-helper.ts): the
+ * helper writes the k values and the first years of the daily series while
+ * this thread makes the rest, and this thread is never held up by the
+ * writing. `streaming` is then true, and the caller must not give other
+ * requests a turn until it has called commit (see startHelperWrite). Else
+ * the parts are collected and written on this thread by commit, in one
+ * synchronous write (writeAllOrNothing, db/bulk-write.ts).
+ */
+function openResultWriter({ threads }: { threads: 1 | 2 }): {
+  streaming: boolean;
+  add: (steps: WriteStep[]) => void;
+  commit: (last: WriteStep[]) => Promise<void>;
+  abort: () => Promise<void>;
+} {
+  const db = getDb();
+  const file = embeddedFileOf(db);
+  const helper = threads === 2 && file ? startHelperWrite({ file }) : null;
+  if (helper) {
+    return {
+      streaming: true,
+      add: (steps) => helper.send(steps),
+      commit: (last) => helper.finish("commit", last),
+      abort: () => helper.finish("abort").catch(() => undefined),
+    };
+  }
+  const steps: WriteStep[] = [];
+  return {
+    streaming: false,
+    add: (more) => void steps.push(...more),
+    commit: (last) => writeAllOrNothing(db, [...steps, ...last]),
+    abort: async () => undefined,
+  };
+}
+
 /**
  * Recomputes every k and the whole stored series from the accepted counts,
  * with the coordinator's settings. Everything is computed in memory from one
- * consistent read; the result replaces the k and series tables in one short
+ * consistent read (or from the counts the last recompute read, while they
+ * hold: KeptCounts); the result replaces the k and series tables in one
  * write transaction, so readers see the old series until the new one is
- * complete. Days refreshed incrementally meanwhile are refreshed again after
- * the write, so no review decision taken during the run is lost.
+ * complete. That write is made on the helper thread as the result is made
+ * when it can (openResultWriter). Days refreshed incrementally meanwhile are
+ * refreshed again after the write, so no review decision taken during the
+ * run is lost.
  */
 export async function runFullRecompute({
   onProgress = () => undefined,
@@ -248,7 +446,9 @@ export async function runFullRecompute({
   try {
     const settings = given ?? (await getKSettings());
     await onProgress(0.02, "Reading accepted counts");
-    const { counts, countOfUnit, packWrites, units, observerOfUnit, labelOf } = await loadAcceptedCounts();
+    const client = getDb().$client;
+    const loaded = await loadAcceptedCounts({ reuse: keptCounts.get(client) });
+    const { counts, countOfUnit, packWrites, units, observerOfUnit, labelOf } = loaded;
     lap("read");
 
     const notes: string[] = [];
@@ -263,95 +463,77 @@ export async function runFullRecompute({
         };
     lap("k");
 
-    // The daily rows a few years at a time (about 70 ms in all on a million
-    // counts), giving the server's other requests a turn in between.
-    await onProgress(0.78, "Building the daily, monthly and yearly series");
-    const daily: DailyRow[] = [];
-    for (const { from, to } of sliceByKey({
-      counts,
-      keyOf: (day) => Math.floor(day / DAYS_PER_SERIES_SLICE),
-    })) {
-      await yieldToServer();
-      appendDailyRows({ counts, kOfRow: fitted.kOfRow, observerOfUnit, from, to, daily });
+    // The result goes to the helper thread as it is made, which writes it
+    // while this thread makes the rest (openResultWriter); without the
+    // helper, it is written here at the end.
+    await onProgress(0.78, "Building and writing the daily, monthly and yearly series");
+    const kRows = refitK ? kCoefficientRows({ fitted, units, settings }) : [];
+    const writer = openResultWriter({ threads });
+    let series: ReturnType<typeof seriesFromDaily>;
+    try {
+      writer.add([
+        ...(refitK
+          ? [
+              { sql: "DELETE FROM k_coefficients" },
+              { table: "k_coefficients", columns: K_COLUMNS, rows: kRows },
+            ]
+          : []),
+        { sql: "DELETE FROM series_daily" },
+        { sql: "DELETE FROM series_monthly" },
+        { sql: "DELETE FROM series_yearly" },
+      ]);
+      // The daily rows a few years at a time (about 50 ms in all on a
+      // million counts), each slice's rows written as soon as they are made;
+      // when written here at the end, other requests get a turn in between.
+      const daily: DailyRow[] = [];
+      for (const { from, to } of sliceByKey({
+        counts,
+        keyOf: (day) => Math.floor(day / DAYS_PER_SERIES_SLICE),
+      })) {
+        if (!writer.streaming) await yieldToServer();
+        const first = daily.length;
+        appendDailyRows({ counts, kOfRow: fitted.kOfRow, observerOfUnit, from, to, daily });
+        writer.add([
+          {
+            table: "series_daily",
+            columns: DAILY_COLUMNS,
+            rows: inKeyOrder(daily.slice(first)).map(dailyValues),
+          },
+        ]);
+      }
+      series = seriesFromDaily(daily);
+      lap("series");
+      if (!writer.streaming) {
+        await yieldToServer();
+        await onProgress(0.88, "Writing the new series");
+      }
+      await writer.commit([
+        {
+          table: "series_monthly",
+          columns: ["month", "hemisphere", "days", "sum_of_daily_means", "mean", "smoothed"],
+          rows: inKeyOrder(series.monthly).map((m) => [
+            m.month,
+            m.hemisphere,
+            m.days,
+            m.sumOfDailyMeans,
+            m.mean,
+            m.smoothed,
+          ]),
+        },
+        {
+          table: "series_yearly",
+          columns: ["year", "hemisphere", "days", "mean"],
+          rows: series.yearly.map((y) => [y.year, y.hemisphere, y.days, y.mean]),
+        },
+        ...packWrites,
+        bumpSeriesRevisionStatement(),
+      ]);
+    } catch (error) {
+      await writer.abort();
+      throw error;
     }
-    await yieldToServer();
-    const series = seriesFromDaily(daily);
-    lap("series");
-
-    await yieldToServer();
-    await onProgress(0.88, "Writing the new series");
-    const makeId = makeOrderedIdMaker({ startMs: Date.now() });
-    // In the order of the observer–period index (and ordered ids for the
-    // key): each index then grows at its end instead of all over its pages,
-    // which measured about a quarter faster for 5,000 coefficients.
-    const observerOf = (fit: KFit) => units[fit.unit]!.observerId;
-    const kInIndexOrder = [...fitted.fits].sort((a, b) =>
-      observerOf(a) < observerOf(b) ? -1 : observerOf(a) > observerOf(b) ? 1 : a.periodIndex - b.periodIndex,
-    );
-    const kRows = kInIndexOrder.map((fit, position) => {
-      const period = describePeriod({ index: fit.periodIndex, kind: settings.periodKind });
-      const unit = units[fit.unit]!;
-      return [
-        makeId(position),
-        unit.observerId,
-        unit.instrumentId,
-        period.start,
-        period.end,
-        fit.k,
-        fit.sigma,
-        fit.commonDays,
-        settings.method,
-        settings.periodKind,
-        fitted.referenceLabel(fit.role),
-      ];
-    });
-    await writeAllOrNothing(getDb(), [
-      ...(refitK
-        ? [
-            { sql: "DELETE FROM k_coefficients" },
-            {
-              table: "k_coefficients",
-              columns: [
-                "id",
-                "observer_id",
-                "instrument_id",
-                "period_start",
-                "period_end",
-                "k",
-                "sigma",
-                "common_days",
-                "method",
-                "period_kind",
-                "reference",
-              ],
-              rows: kRows,
-            },
-          ]
-        : []),
-      { sql: "DELETE FROM series_daily" },
-      { table: "series_daily", columns: DAILY_COLUMNS, rows: inKeyOrder(series.daily).map(dailyValues) },
-      { sql: "DELETE FROM series_monthly" },
-      {
-        table: "series_monthly",
-        columns: ["month", "hemisphere", "days", "sum_of_daily_means", "mean", "smoothed"],
-        rows: inKeyOrder(series.monthly).map((m) => [
-          m.month,
-          m.hemisphere,
-          m.days,
-          m.sumOfDailyMeans,
-          m.mean,
-          m.smoothed,
-        ]),
-      },
-      { sql: "DELETE FROM series_yearly" },
-      {
-        table: "series_yearly",
-        columns: ["year", "hemisphere", "days", "mean"],
-        rows: series.yearly.map((y) => [y.year, y.hemisphere, y.days, y.mean]),
-      },
-      ...packWrites,
-      bumpSeriesRevisionStatement(),
-    ]);
+    // Kept only once their packs are stored, so what is kept is also on disk.
+    await keepCounts({ client, read: loaded, kept: { counts, countOfUnit, units, observerOfUnit } });
     lap("write");
 
     const dirtyDays = dirty.stop();
@@ -369,6 +551,8 @@ export async function runFullRecompute({
       units: units.length,
       periods: fitted.periods,
       kCoefficients: kRows.length,
+      countsReused: loaded.reused,
+      writtenOn: writer.streaming ? "helper" : "server",
       days: series.daily.filter((d) => d.hemisphere === "all").length,
       months: series.monthly.filter((m) => m.hemisphere === "all").length,
       notes,

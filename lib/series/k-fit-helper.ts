@@ -1,6 +1,8 @@
 /**
  * Fitting every period's k on two threads: the server's own and one helper
- * thread (lib/series/k-fit-worker.ts) kept for the life of the process.
+ * thread (lib/series/k-fit-worker.ts) kept for the life of the process. The
+ * same helper then writes the recompute's result as it is made
+ * (startHelperWrite, below).
  *
  * Periods are independent of each other except through a stand-in pilot's
  * anchor (fitPeriodK): a period whose pilot is present gives the same fit
@@ -21,6 +23,7 @@ import path from "node:path";
 import { pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
 
+import type { WriteStep } from "@/db/sync-write";
 import type { KMethod } from "@/lib/counts/k-coefficient";
 
 import type { AcceptedCounts } from "./accepted-counts";
@@ -48,8 +51,23 @@ export type KFitJob = {
 
 type Fitted = Array<{ position: number; result: PeriodKResult }>;
 
-export type KFitReply = { ready: true } | { id: number; results: Fitted } | { id: number; error: string };
-type Pending = { resolve: (results: Fitted) => void; reject: (error: Error) => void };
+/**
+ * Part of a write the helper makes on its own connection to an embedded
+ * database (startHelperWrite): its first part begins the transaction, each
+ * part's steps run as it arrives, and the last part commits it (or rolls it
+ * back: "abort").
+ */
+export type HelperWritePart = {
+  id: number;
+  write: { file: string; steps: WriteStep[]; end: "more" | "commit" | "abort" };
+};
+
+export type KFitReply =
+  | { ready: true }
+  | { id: number; results: Fitted }
+  | { id: number; written: true }
+  | { id: number; error: string };
+type Pending = { resolve: (value: unknown) => void; reject: (error: Error) => void };
 type Helper = {
   worker: Worker | null;
   ready: boolean;
@@ -97,7 +115,7 @@ function startHelper(helper: Helper): void {
       const pending = helper.pending.get(reply.id);
       helper.pending.delete(reply.id);
       if ("error" in reply) pending?.reject(new Error(reply.error));
-      else pending?.resolve(reply.results);
+      else pending?.resolve("results" in reply ? reply.results : undefined);
     });
     worker.on("error", (error) => stopHelper(helper, error));
     worker.on("exit", (code) =>
@@ -131,11 +149,53 @@ export function whenKFitHelperReady(): Promise<boolean> {
 function sendToHelper(helper: Helper, job: Omit<KFitJob, "id">): Promise<Fitted> {
   const id = helper.nextId++;
   return new Promise((resolve, reject) => {
-    helper.pending.set(id, { resolve, reject });
+    helper.pending.set(id, { resolve: (value) => resolve(value as Fitted), reject });
     // A process waiting for the helper's answer must not end meanwhile.
     helper.worker!.ref();
     helper.worker!.postMessage({ ...job, id } satisfies KFitJob);
   });
+}
+
+export type HelperWrite = {
+  /** Sends steps to run in the write's transaction (the first call begins it). */
+  send: (steps: WriteStep[]) => void;
+  /** Sends the last steps and commits ("abort": rolls back); settles once the helper has. */
+  finish: (end: "commit" | "abort", steps?: WriteStep[]) => Promise<void>;
+};
+
+/**
+ * One all-or-nothing write made on the helper thread, on its own connection
+ * to the embedded database in `file`, with steps sent as they are made: the
+ * helper writes the first ones while this thread makes the next, and this
+ * thread never waits for the writing itself. Null when the helper is not
+ * ready (the caller then writes on this thread).
+ *
+ * The helper holds the database's write lock from its first part to its
+ * last. Until the last part is sent, this thread must not wait on that lock
+ * itself: no statement that writes, and no turn for other requests (one of
+ * them could write). A synchronous wait for the lock here would stop the
+ * very thread the helper waits for.
+ */
+export function startHelperWrite({ file }: { file: string }): HelperWrite | null {
+  const helper = getHelper();
+  const worker = helper.worker;
+  if (!helper.ready || !worker) return null;
+  const id = helper.nextId++;
+  const post = (steps: WriteStep[], end: HelperWritePart["write"]["end"]) =>
+    worker.postMessage({ id, write: { file, steps, end } } satisfies HelperWritePart);
+  return {
+    send: (steps) => post(steps, "more"),
+    finish: (end, steps = []) =>
+      new Promise<void>((resolve, reject) => {
+        if (helper.worker !== worker) {
+          reject(new Error("The helper thread stopped during the write"));
+          return;
+        }
+        helper.pending.set(id, { resolve: () => resolve(), reject });
+        worker.ref();
+        post(steps, end);
+      }),
+  };
 }
 
 /** fitPeriodK for one period of `counts`, with everything but the period and the anchors fixed; both threads use it. */

@@ -1,12 +1,14 @@
 /**
  * writeAllOrNothing (db/bulk-write.ts): both of its paths (its own connection
  * on an embedded database, a client transaction elsewhere) store every row
- * or none, and refuse what the client refuses.
+ * or none, and refuse what the client refuses; so does a write the helper
+ * thread makes (lib/series/k-fit-helper.ts), sent in parts.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
 import { writeAllOrNothing, type WriteStep } from "@/db/bulk-write";
-import { getDb, openDatabase, type Database } from "@/db/client";
+import { embeddedFileOf, getDb, openDatabase, type Database } from "@/db/client";
+import { startHelperWrite, whenKFitHelperReady } from "@/lib/series/k-fit-helper";
 
 const TABLE = "CREATE TABLE bulk_test (n INTEGER PRIMARY KEY, label TEXT NOT NULL, value REAL)";
 let memory: Database;
@@ -105,5 +107,62 @@ describe.each([
       bytes,
       new Uint8Array(0),
     ]);
+  });
+});
+
+describe("a write made on the helper thread (startHelperWrite)", () => {
+  const db = () => getDb();
+  const file = () => embeddedFileOf(db())!;
+  const labels = async () =>
+    (await db().$client.execute("SELECT label FROM bulk_test ORDER BY n")).rows.map((r) => r.label);
+  const start = async () => {
+    expect(await whenKFitHelperReady()).toBe(true);
+    const write = startHelperWrite({ file: file() });
+    expect(write).not.toBeNull();
+    return write!;
+  };
+
+  beforeAll(async () => {
+    await writeAllOrNothing(db(), [
+      { sql: "DELETE FROM bulk_test" },
+      { table: "bulk_test", columns: ["n", "label", "value"], rows: [[1, "before", 1]] },
+    ]);
+  });
+
+  it("stores every part, sent one by one, once committed", async () => {
+    const write = await start();
+    write.send([{ sql: "DELETE FROM bulk_test" }]);
+    write.send([{ table: "bulk_test", columns: ["n", "label", "value"], rows: rowsOf(700) }]);
+    // Readers see the old rows until the commit.
+    expect(await labels()).toEqual(["before"]);
+    await write.finish("commit", [
+      { table: "bulk_test", columns: ["n", "label", "value"], rows: rowsOf(300, 700) },
+    ]);
+    expect((await labels()).length).toBe(1_000);
+    expect((await labels())[999]).toBe("row 999");
+  });
+
+  it("stores nothing when a part fails, says why, and takes the next write", async () => {
+    const write = await start();
+    write.send([{ sql: "DELETE FROM bulk_test" }]);
+    write.send([{ table: "bulk_test", columns: ["n", "label", "value"], rows: [[5, null, 1]] }]);
+    // Parts after the failure are not run.
+    write.send([{ table: "bulk_test", columns: ["n", "label", "value"], rows: [[6, "six", 1]] }]);
+    await expect(write.finish("commit")).rejects.toThrow(/NOT NULL/);
+    expect((await labels()).length).toBe(1_000);
+
+    const next = await start();
+    next.send([{ sql: "DELETE FROM bulk_test WHERE n >= 10" }]);
+    await next.finish("commit");
+    expect(await labels()).toEqual(rowsOf(10).map((r) => r[1]));
+  });
+
+  it("stores nothing when abandoned, and lets this thread write afterwards", async () => {
+    const write = await start();
+    write.send([{ sql: "DELETE FROM bulk_test" }]);
+    await write.finish("abort");
+    expect((await labels()).length).toBe(10);
+    await writeAllOrNothing(db(), [{ sql: "DELETE FROM bulk_test WHERE n >= 5" }]);
+    expect((await labels()).length).toBe(5);
   });
 });

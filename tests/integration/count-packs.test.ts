@@ -10,7 +10,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 
 import { writeAllOrNothing } from "@/db/bulk-write";
 import { getDb } from "@/db/client";
-import { loadAcceptedCounts, runFullRecompute } from "@/db/queries/recompute";
+import { forgetKeptCounts, loadAcceptedCounts, runFullRecompute } from "@/db/queries/recompute";
 import { observations } from "@/db/schema";
 
 import { insertInstrument, insertObservation, makeUser } from "./support";
@@ -141,6 +141,9 @@ describe("count packs", () => {
     ]) {
       await client.execute(damage);
       expect((await read()).rows).toEqual(await truth());
+      // A recompute that reads the packs (this one's kept counts would
+      // otherwise stand in for them, as nothing has changed).
+      forgetKeptCounts();
       await runFullRecompute();
       expect(await read()).toEqual({ rows: await truth(), packWrites: 0 });
     }
@@ -167,6 +170,39 @@ describe("count packs", () => {
     await writeAllOrNothing(getDb(), stale.packWrites);
     expect([...(await changes()).keys()]).toEqual([second.instrument!.id]);
     expect((await read()).rows).toContain(`${second.instrument!.id} 2024-03-07 25`);
+  });
+
+  it("are kept in memory from one recompute to the next while nothing changes", async () => {
+    await runFullRecompute();
+    expect((await runFullRecompute()).countsReused).toBe(true);
+    const daily = async () =>
+      (
+        await getDb().$client.execute(
+          "SELECT observers, sum FROM series_daily WHERE day = '2024-03-09' AND hemisphere = 'all'",
+        )
+      ).rows.map((r) => ({ ...r }));
+
+    // A count accepted meanwhile (the review desk's way in, or any other):
+    // read again, and in the series.
+    const id = await store({ owner: second, day: "2024-03-09", groups: 2, spots: 5 });
+    const afterCount = await runFullRecompute();
+    expect(afterCount.countsReused).toBe(false);
+    expect(await daily()).toEqual([{ observers: 1, sum: 25 }]);
+    expect((await runFullRecompute()).countsReused).toBe(true);
+
+    // Corrected in place, by a plain UPDATE: read again.
+    await getDb().update(observations).set({ spots: 9 }).where(eq(observations.id, id));
+    expect((await runFullRecompute()).countsReused).toBe(false);
+    expect(await daily()).toEqual([{ observers: 1, sum: 29 }]);
+
+    // A new instrument changes the units the arrays refer to.
+    await insertInstrument({ owner: second, name: "Solar projection box" });
+    expect((await runFullRecompute()).countsReused).toBe(false);
+    // Packs removed by someone else: read again, and stored again.
+    await getDb().$client.execute("DELETE FROM count_packs");
+    expect((await runFullRecompute()).countsReused).toBe(false);
+    expect(await read()).toEqual({ rows: await truth(), packWrites: 0 });
+    expect((await runFullRecompute()).countsReused).toBe(true);
   });
 
   it("of instruments deleted since go", async () => {

@@ -1,6 +1,7 @@
 /**
- * The full recompute's k fit on two threads (lib/series/k-fit-helper.ts)
- * against the same fit on one: the same coefficients, series and notes to
+ * The full recompute's k fit on two threads (lib/series/k-fit-helper.ts),
+ * with its result written by the helper, against the same fit on one,
+ * written on the server's thread: the same coefficients, series and notes to
  * the bit, including periods where the pilot is away and another observer
  * stands in, held at its k of the period before (or, at the start, of the
  * period after).
@@ -67,6 +68,9 @@ describe("the k fit on two threads", () => {
     const fromTwo = await snapshot();
     const one = await runFullRecompute({ settings, threads: 1 });
     expect(one.kFitThreads).toBe(1);
+    // The helper wrote the first result as it was made; this thread the second.
+    expect(two.writtenOn).toBe("helper");
+    expect(one.writtenOn).toBe("server");
     const fromOne = await snapshot();
 
     expect(fromTwo).toEqual(fromOne);

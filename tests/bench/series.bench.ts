@@ -5,7 +5,9 @@
  * reports:
  *  (a) a full recompute of every k and every series (the first after the
  *      load, which builds the count packs, then later ones, with the k fit
- *      on two threads once the helper thread is ready), against one
+ *      on two threads once the helper thread is ready, the counts kept in
+ *      memory from the run before and the result written by the helper
+ *      thread as it is made), against one
  *      bare SQL scan averaging 10g + s per day with the same client on the
  *      same table (as the planner runs it, over the table itself, and after
  *      ANALYZE, the last also in pairs timed back to back with a recompute);
@@ -51,6 +53,14 @@ function quantile(values: number[], q: number): number {
   const low = Math.floor(position);
   const high = Math.ceil(position);
   return sorted[low]! + (sorted[high]! - sorted[low]!) * (position - low);
+}
+
+/** How a recompute ran: threads of the k fit, counts kept from the run before, who wrote the result. */
+function reportRun(summary: { kFitThreads: number; countsReused: boolean; writtenOn: string }) {
+  report("    k fitted on threads", summary.kFitThreads, "");
+  console.log(
+    `    counts ${summary.countsReused ? "kept from the run before" : "read from the database"}; result written on the ${summary.writtenOn === "helper" ? "helper thread, as it was made" : "server's thread, at the end"}`,
+  );
 }
 
 async function timeIt<T>(run: () => Promise<T>): Promise<{ result: T; ms: number }> {
@@ -606,7 +616,7 @@ async function main() {
   const firstRun = await timeIt(() => runFullRecompute());
   report("(a) full recompute, yearly k, first after the load (builds the packs)", firstRun.ms);
   for (const [phase, ms] of Object.entries(firstRun.result.timingsMs)) report(`    phase: ${phase}`, ms);
-  report("    k fitted on threads", firstRun.result.kFitThreads, "");
+  reportRun(firstRun.result);
   const recomputes: number[] = [];
   let summary: Awaited<ReturnType<typeof runFullRecompute>> | null = null;
   for (let i = 0; i < 2; i++) {
@@ -617,7 +627,7 @@ async function main() {
   const recomputeMs = Math.min(...recomputes);
   report("(a) full recompute, next two runs back to back (best)", recomputeMs);
   for (const [phase, ms] of Object.entries(summary!.timingsMs)) report(`    phase: ${phase}`, ms);
-  report("    k fitted on threads", summary!.kFitThreads, "");
+  reportRun(summary!);
   const quarterly = await timeIt(() =>
     runFullRecompute({ settings: { ...DEFAULT_K_SETTINGS, periodKind: "quarter" } }),
   );
@@ -638,7 +648,7 @@ async function main() {
   const settledMs = Math.min(...settled);
   report("(a) full recompute after 4 s idle (best of 2)", settledMs);
   for (const [phase, ms] of Object.entries(settledSummary!.timingsMs)) report(`    phase: ${phase}`, ms);
-  report("    k fitted on threads", settledSummary!.kFitThreads, "");
+  reportRun(settledSummary!);
   // How long the server's other requests may wait behind it: the longest
   // stretch the recompute holds the event loop.
   await new Promise((resolve) => setTimeout(resolve, 4_000));

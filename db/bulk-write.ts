@@ -2,7 +2,7 @@ import "server-only";
 
 import { inWriteTransaction, ownConnection, type Database } from "./client";
 import { insertRows } from "./queries/series";
-import { runStepsAllOrNothing, type WriteStep } from "./sync-write";
+import { rowCountOfStep, rowOfStep, runStepsAllOrNothing, type WriteStep } from "./sync-write";
 
 export type { WriteStep } from "./sync-write";
 
@@ -37,7 +37,10 @@ async function writeThroughClient(db: Database, steps: readonly WriteStep[]): Pr
   await inWriteTransaction(db, async (tx) => {
     for (const step of steps) {
       if ("sql" in step) await tx.execute({ sql: step.sql, args: step.args ?? [] });
-      else await insertRows({ tx, ...step });
+      else {
+        const rows = Array.from({ length: rowCountOfStep(step) }, (_, r) => rowOfStep(step, r));
+        await insertRows({ tx, table: step.table, columns: step.columns, rows });
+      }
     }
   });
 }

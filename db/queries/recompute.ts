@@ -9,10 +9,10 @@ import { packsFromPackedText, type CountPack } from "@/lib/series/count-packs";
 import { fitAllPeriods, startHelperWrite, type KFitReference } from "@/lib/series/k-fit-helper";
 import { buildKLookup, buildStoredKResolver, type KFit, type KUnit } from "@/lib/series/k-fit";
 import {
-  appendDailyRows,
-  seriesFromDaily,
+  dailyColumnsOf,
+  seriesFromDailyColumns,
   SERIES_HEMISPHERES,
-  type DailyRow,
+  type DailyColumns,
   type Hemisphere,
 } from "@/lib/series/network-series";
 import { describePeriod, findPeriodIndex } from "@/lib/series/periods";
@@ -20,6 +20,7 @@ import { PACKED_COUNT_SQL } from "@/lib/series/packed-count";
 import { NETWORK_REFERENCE, type KSettings } from "@/lib/validation/k-settings";
 
 import { writeAllOrNothing, type WriteStep } from "../bulk-write";
+import type { ColumnarRows } from "../sync-write";
 import { embeddedFileOf, getDb } from "../client";
 import { countPackWrites, readTrustedPacks } from "./count-packs";
 import { createJob, findActiveJob, finishJob, markJobRunning, reportJobProgress, type JobView } from "./jobs";
@@ -30,7 +31,6 @@ import {
   acceptedPackedIndexHint,
   bumpSeriesRevisionStatement,
   DAILY_COLUMNS,
-  dailyValues,
   refreshSeriesForDays,
   watchDirtyDays,
 } from "./series";
@@ -323,6 +323,43 @@ function inKeyOrder<Row extends { hemisphere: Hemisphere }>(rows: readonly Row[]
     .flatMap((hemisphere) => rows.filter((row) => row.hemisphere === hemisphere));
 }
 
+/** A slice's daily rows as one columnar insert, in the order of the table's key (see inKeyOrder). */
+function dailyRowsInKeyOrder(columns: DailyColumns): ColumnarRows {
+  const order = new Int32Array(columns.length);
+  let length = 0;
+  for (const hemisphere of [...SERIES_HEMISPHERES].sort())
+    for (let i = 0; i < columns.length; i++) if (columns.hemisphere[i] === hemisphere) order[length++] = i;
+  const pick = (from: Float64Array) => {
+    const picked = new Float64Array(length);
+    for (let j = 0; j < length; j++) picked[j] = from[order[j] as number] as number;
+    return picked;
+  };
+  const observers = new Int32Array(length);
+  const day = new Array<string>(length);
+  const hemisphere = new Array<string>(length);
+  for (let j = 0; j < length; j++) {
+    const i = order[j] as number;
+    observers[j] = columns.observers[i] as number;
+    day[j] = columns.day[i]!;
+    hemisphere[j] = columns.hemisphere[i]!;
+  }
+  return {
+    table: "series_daily",
+    columns: DAILY_COLUMNS,
+    length,
+    // The order of DAILY_COLUMNS.
+    values: [
+      day,
+      hemisphere,
+      observers,
+      pick(columns.sum),
+      pick(columns.sumSquares),
+      pick(columns.mean),
+      pick(columns.sd),
+    ],
+  };
+}
+
 const K_COLUMNS = [
   "id",
   "observer_id",
@@ -350,13 +387,26 @@ function kCoefficientRows({
   const makeId = makeOrderedIdMaker({ startMs: Date.now() });
   // In the order of the observer–period index (and ordered ids for the
   // key): each index then grows at its end instead of all over its pages,
-  // which measured about a quarter faster for 5,000 coefficients.
-  const observerOf = (fit: KFit) => units[fit.unit]!.observerId;
-  const kInIndexOrder = [...fitted.fits].sort((a, b) =>
-    observerOf(a) < observerOf(b) ? -1 : observerOf(a) > observerOf(b) ? 1 : a.periodIndex - b.periodIndex,
+  // which measured about a quarter faster for 5,000 coefficients. Units are
+  // ranked by observer once, rather than comparing ids in every comparison.
+  const byObserver = units.map((_, unit) => unit);
+  byObserver.sort((a, b) =>
+    units[a]!.observerId < units[b]!.observerId ? -1 : units[a]!.observerId > units[b]!.observerId ? 1 : 0,
   );
+  const rank = new Int32Array(units.length);
+  byObserver.forEach((unit, position) => (rank[unit] = position));
+  const kInIndexOrder = [...fitted.fits].sort((a, b) =>
+    units[a.unit]!.observerId === units[b.unit]!.observerId
+      ? a.periodIndex - b.periodIndex
+      : (rank[a.unit] as number) - (rank[b.unit] as number),
+  );
+  const periods = new Map<number, ReturnType<typeof describePeriod>>();
   return kInIndexOrder.map((fit, position) => {
-    const period = describePeriod({ index: fit.periodIndex, kind: settings.periodKind });
+    let period = periods.get(fit.periodIndex);
+    if (!period) {
+      period = describePeriod({ index: fit.periodIndex, kind: settings.periodKind });
+      periods.set(fit.periodIndex, period);
+    }
     const unit = units[fit.unit]!;
     return [
       makeId(position),
@@ -467,17 +517,13 @@ export async function runFullRecompute({
     // while this thread makes the rest (openResultWriter); without the
     // helper, it is written here at the end.
     await onProgress(0.78, "Building and writing the daily, monthly and yearly series");
-    const kRows = refitK ? kCoefficientRows({ fitted, units, settings }) : [];
     const writer = openResultWriter({ threads });
-    let series: ReturnType<typeof seriesFromDaily>;
+    let series: ReturnType<typeof seriesFromDailyColumns>;
+    let days = 0;
+    let kRows: InValue[][] = [];
     try {
       writer.add([
-        ...(refitK
-          ? [
-              { sql: "DELETE FROM k_coefficients" },
-              { table: "k_coefficients", columns: K_COLUMNS, rows: kRows },
-            ]
-          : []),
+        ...(refitK ? [{ sql: "DELETE FROM k_coefficients" }] : []),
         { sql: "DELETE FROM series_daily" },
         { sql: "DELETE FROM series_monthly" },
         { sql: "DELETE FROM series_yearly" },
@@ -485,23 +531,28 @@ export async function runFullRecompute({
       // The daily rows a few years at a time (about 50 ms in all on a
       // million counts), each slice's rows written as soon as they are made;
       // when written here at the end, other requests get a turn in between.
-      const daily: DailyRow[] = [];
+      // The k rows are made once the first slice is on its way, so the
+      // helper is never left waiting for work.
+      const slices: DailyColumns[] = [];
       for (const { from, to } of sliceByKey({
         counts,
         keyOf: (day) => Math.floor(day / DAYS_PER_SERIES_SLICE),
       })) {
         if (!writer.streaming) await yieldToServer();
-        const first = daily.length;
-        appendDailyRows({ counts, kOfRow: fitted.kOfRow, observerOfUnit, from, to, daily });
-        writer.add([
-          {
-            table: "series_daily",
-            columns: DAILY_COLUMNS,
-            rows: inKeyOrder(daily.slice(first)).map(dailyValues),
-          },
-        ]);
+        const columns = dailyColumnsOf({ counts, kOfRow: fitted.kOfRow, observerOfUnit, from, to });
+        slices.push(columns);
+        writer.add([dailyRowsInKeyOrder(columns)]);
+        for (const hemisphere of columns.hemisphere) if (hemisphere === "all") days++;
+        if (slices.length === 1 && refitK) {
+          kRows = kCoefficientRows({ fitted, units, settings });
+          writer.add([{ table: "k_coefficients", columns: K_COLUMNS, rows: kRows }]);
+        }
       }
-      series = seriesFromDaily(daily);
+      if (slices.length === 0 && refitK) {
+        kRows = kCoefficientRows({ fitted, units, settings });
+        writer.add([{ table: "k_coefficients", columns: K_COLUMNS, rows: kRows }]);
+      }
+      series = seriesFromDailyColumns(slices);
       lap("series");
       if (!writer.streaming) {
         await yieldToServer();
@@ -553,7 +604,7 @@ export async function runFullRecompute({
       kCoefficients: kRows.length,
       countsReused: loaded.reused,
       writtenOn: writer.streaming ? "helper" : "server",
-      days: series.daily.filter((d) => d.hemisphere === "all").length,
+      days,
       months: series.monthly.filter((m) => m.hemisphere === "all").length,
       notes,
       timingsMs,

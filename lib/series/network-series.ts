@@ -28,6 +28,56 @@ export type DailyRow = {
   sd: number | null;
 };
 
+/**
+ * Daily rows column by column, as the full recompute makes them and hands
+ * them to the helper thread that writes them (a million counts give some
+ * 27,000 rows): the numbers cross as typed arrays, one copy of their bytes,
+ * where rows as objects or arrays are copied value by value. Row i is
+ * day[i], hemisphere[i], observers[i]…; `sd` is NaN where a row has none
+ * (DailyRow's null).
+ */
+export type DailyColumns = {
+  length: number;
+  day: string[];
+  hemisphere: Hemisphere[];
+  observers: Int32Array;
+  sum: Float64Array;
+  sumSquares: Float64Array;
+  mean: Float64Array;
+  sd: Float64Array;
+};
+
+function createDailyColumns(capacity: number): DailyColumns {
+  return {
+    length: 0,
+    day: [],
+    hemisphere: [],
+    observers: new Int32Array(capacity),
+    sum: new Float64Array(capacity),
+    sumSquares: new Float64Array(capacity),
+    mean: new Float64Array(capacity),
+    sd: new Float64Array(capacity),
+  };
+}
+
+/** The rows of `columns` as DailyRow objects, in the same order. */
+export function dailyRowsOf(columns: DailyColumns): DailyRow[] {
+  const rows: DailyRow[] = [];
+  for (let i = 0; i < columns.length; i++) {
+    const sd = columns.sd[i] as number;
+    rows.push({
+      day: columns.day[i]!,
+      hemisphere: columns.hemisphere[i]!,
+      observers: columns.observers[i] as number,
+      sum: columns.sum[i] as number,
+      sumSquares: columns.sumSquares[i] as number,
+      mean: columns.mean[i] as number,
+      sd: Number.isNaN(sd) ? null : sd,
+    });
+  }
+  return rows;
+}
+
 export type MonthlyRow = {
   month: string;
   hemisphere: Hemisphere;
@@ -131,6 +181,33 @@ class DaySums {
     pushDailyRow(rows, day, "N", this.nSplit, this.northSum, this.northSquares);
     pushDailyRow(rows, day, "S", this.nSplit, this.southSum, this.southSquares);
   }
+
+  /** The same rows as appendRows, into columns (room for three more rows is the caller's to make). */
+  appendColumns(day: string, columns: DailyColumns): void {
+    pushDailyColumns(columns, day, "all", this.n, this.sum, this.sumSquares);
+    pushDailyColumns(columns, day, "N", this.nSplit, this.northSum, this.northSquares);
+    pushDailyColumns(columns, day, "S", this.nSplit, this.southSum, this.southSquares);
+  }
+}
+
+function pushDailyColumns(
+  columns: DailyColumns,
+  day: string,
+  hemisphere: Hemisphere,
+  observers: number,
+  sum: number,
+  sumSquares: number,
+): void {
+  const summary = summariseSums({ n: observers, sum, sumSquares });
+  if (!summary) return;
+  const i = columns.length++;
+  columns.day.push(day);
+  columns.hemisphere.push(hemisphere);
+  columns.observers[i] = observers;
+  columns.sum[i] = sum;
+  columns.sumSquares[i] = sumSquares;
+  columns.mean[i] = summary.relativeNumber;
+  columns.sd[i] = summary.sd ?? Number.NaN;
 }
 
 function pushDailyRow(
@@ -234,16 +311,11 @@ export function seriesFromDaily(daily: DailyRow[]): {
 /**
  * The daily rows of rows [from, to) of `counts` (whole days: `from` and
  * `to` fall on day boundaries), appended to `daily` in day order. The full
- * recompute calls it a slice of days at a time, letting other requests in
- * between.
+ * recompute uses dailyColumnsOf, the same rows as columns.
  */
 export function appendDailyRows({
-  counts,
-  kOfRow,
-  observerOfUnit,
-  from: start,
-  to: end,
   daily,
+  ...slice
 }: {
   counts: AcceptedCounts;
   kOfRow: Float64Array;
@@ -252,6 +324,33 @@ export function appendDailyRows({
   to: number;
   daily: DailyRow[];
 }): void {
+  for (const row of dailyRowsOf(dailyColumnsOf(slice))) daily.push(row);
+}
+
+/**
+ * The daily rows of rows [from, to) of `counts` (whole days: `from` and
+ * `to` fall on day boundaries), in day order, as columns. `kOfRow[i]` is
+ * the k that scales row i; `observerOfUnit` tells which observer each unit
+ * belongs to (for one value per observer per day). The full recompute
+ * calls it a slice of days at a time.
+ */
+export function dailyColumnsOf({
+  counts,
+  kOfRow,
+  observerOfUnit,
+  from: start,
+  to: end,
+}: {
+  counts: AcceptedCounts;
+  kOfRow: Float64Array;
+  observerOfUnit: Int32Array;
+  from: number;
+  to: number;
+}): DailyColumns {
+  const { dayNumber: dayOf, unit: unitOf, raw: rawOf, northRaw: northOf, southRaw: southOf } = counts;
+  let dayCount = 0;
+  for (let i = start; i < end; i++) if (i === start || dayOf[i] !== dayOf[i - 1]) dayCount++;
+  const columns = createDailyColumns(3 * dayCount);
   // Per-observer accumulators in typed arrays, reset through the list of
   // observers seen each day: a million updates of numbers in plain arrays
   // rather than of objects' fields, and no garbage.
@@ -264,18 +363,18 @@ export function appendDailyRows({
   const seen = new Int32Array(observerCount);
   let from = start;
   while (from < end) {
-    const dayNumber = counts.dayNumber[from] as number;
+    const dayNumber = dayOf[from] as number;
     let to = from + 1;
-    while (to < end && counts.dayNumber[to] === dayNumber) to++;
+    while (to < end && dayOf[to] === dayNumber) to++;
     let seenCount = 0;
     for (let i = from; i < to; i++) {
-      const observer = observerOfUnit[counts.unit[i] as number] as number;
+      const observer = observerOfUnit[unitOf[i] as number] as number;
       if (n[observer] === 0) seen[seenCount++] = observer;
       const k = kOfRow[i] as number;
-      total[observer] = (total[observer] as number) + k * (counts.raw[i] as number);
+      total[observer] = (total[observer] as number) + k * (rawOf[i] as number);
       n[observer] = (n[observer] as number) + 1;
-      const northRaw = counts.northRaw[i] as number;
-      const southRaw = counts.southRaw[i] as number;
+      const northRaw = northOf[i] as number;
+      const southRaw = southOf[i] as number;
       if (northRaw !== NO_SPLIT && southRaw !== NO_SPLIT) {
         north[observer] = (north[observer] as number) + k * northRaw;
         south[observer] = (south[observer] as number) + k * southRaw;
@@ -296,9 +395,10 @@ export function appendDailyRows({
       total[observer] = north[observer] = south[observer] = 0;
       n[observer] = nSplit[observer] = 0;
     }
-    sums.appendRows(formatDayNumber(dayNumber), daily);
+    sums.appendColumns(formatDayNumber(dayNumber), columns);
     from = to;
   }
+  return columns;
 }
 
 /** Monthly rows (with smoothed values) from daily rows in day order. */
@@ -310,6 +410,29 @@ export function summariseMonthsFromDays(daily: ReadonlyArray<DailyRow>): Monthly
     if (list) list.push(row.mean);
     else meansByKey.set(key, [row.mean]);
   }
+  return summariseMonthsFromMeans(meansByKey);
+}
+
+/** The monthly and yearly rows that go with daily columns (slices in day order). */
+export function seriesFromDailyColumns(slices: ReadonlyArray<DailyColumns>): {
+  monthly: MonthlyRow[];
+  yearly: YearlyRow[];
+} {
+  const meansByKey = new Map<string, number[]>();
+  for (const columns of slices) {
+    for (let i = 0; i < columns.length; i++) {
+      const key = `${columns.hemisphere[i]!}|${columns.day[i]!.slice(0, 7)}`;
+      const list = meansByKey.get(key);
+      if (list) list.push(columns.mean[i] as number);
+      else meansByKey.set(key, [columns.mean[i] as number]);
+    }
+  }
+  const monthly = summariseMonthsFromMeans(meansByKey);
+  return { monthly, yearly: summariseYearsFromMonths(monthly) };
+}
+
+/** Monthly rows from each month's daily means (in day order), keyed "hemisphere|YYYY-MM". */
+function summariseMonthsFromMeans(meansByKey: ReadonlyMap<string, number[]>): MonthlyRow[] {
   const monthly: MonthlyRow[] = [];
   const meanByHemisphere = new Map<Hemisphere, Map<number, number>>();
   for (const [key, dailyMeans] of meansByKey) {

@@ -56,6 +56,48 @@ describe.each([
     expect(await count()).toBe(3);
   });
 
+  it("takes rows column by column, NaN in a Float64Array as NULL", async () => {
+    const db = databaseOf();
+    await writeAllOrNothing(db, [
+      { sql: "DELETE FROM bulk_test" },
+      {
+        table: "bulk_test",
+        columns: ["n", "label", "value"],
+        length: 1_200,
+        values: [
+          Int32Array.from({ length: 1_200 }, (_, i) => i),
+          Array.from({ length: 1_200 }, (_, i) => `row ${i}`),
+          Float64Array.from({ length: 1_200 }, (_, i) => (i % 7 === 0 ? Number.NaN : i / 4)),
+        ],
+      },
+    ]);
+    const stored = await db.$client.execute("SELECT n, label, value FROM bulk_test ORDER BY n");
+    expect(stored.rows.map((r) => [r.n, r.label, r.value])).toEqual(
+      rowsOf(1_200).map(([n, label, value]) => [n, label, value === null ? null : Number(n) / 4]),
+    );
+    // Columns shorter than the rows asked for are refused, and nothing is stored.
+    await expect(
+      writeAllOrNothing(db, [
+        { sql: "DELETE FROM bulk_test" },
+        {
+          table: "bulk_test",
+          columns: ["n", "label", "value"],
+          length: 3,
+          values: [
+            [1, 2, 3],
+            ["a", "b"],
+            [1, 2, 3],
+          ],
+        },
+      ]),
+    ).rejects.toThrow(/do not hold 3 rows/);
+    expect(await count()).toBe(1_200);
+    await writeAllOrNothing(db, [
+      { sql: "DELETE FROM bulk_test" },
+      { table: "bulk_test", columns: ["n", "label", "value"], rows: rowsOf(3) },
+    ]);
+  });
+
   it("stores nothing when any step fails, and says why", async () => {
     const db = databaseOf();
     const failing: Array<[string, WriteStep[]]> = [

@@ -10,12 +10,16 @@ import {
 import { appendCount, createAcceptedCounts, NO_SPLIT, sliceByKey } from "@/lib/series/accepted-counts";
 import {
   appendDailyRows,
+  dailyColumnsOf,
+  dailyRowsOf,
   combineObserverCounts,
   computeNetworkSeries,
   computeSmoothedAt,
   summariseDay,
   summariseMonth,
   seriesFromDaily,
+  seriesFromDailyColumns,
+  type DailyColumns,
   summariseYear,
 } from "@/lib/series/network-series";
 
@@ -215,10 +219,25 @@ describe("daily rows a slice of days at a time", () => {
     const whole = computeNetworkSeries({ counts, kOfRow, observerOfUnit });
     for (const days of [1, 7, 64]) {
       const daily: Parameters<typeof seriesFromDaily>[0] = [];
-      for (const { from, to } of sliceByKey({ counts, keyOf: (day) => Math.floor(day / days) }))
+      const slices: DailyColumns[] = [];
+      for (const { from, to } of sliceByKey({ counts, keyOf: (day) => Math.floor(day / days) })) {
         appendDailyRows({ counts, kOfRow, observerOfUnit, from, to, daily });
+        slices.push(dailyColumnsOf({ counts, kOfRow, observerOfUnit, from, to }));
+      }
       expect(seriesFromDaily(daily), `${days} days a slice`).toEqual(whole);
+      // The full recompute's way: the same rows as columns, and the same
+      // months and years from them.
+      expect(slices.flatMap(dailyRowsOf), `${days} days a slice, as columns`).toEqual(whole.daily);
+      expect(seriesFromDailyColumns(slices), `${days} days a slice, as columns`).toEqual({
+        monthly: whole.monthly,
+        yearly: whole.yearly,
+      });
     }
+    // One observer on a day has no spread: NaN in the columns, null in the rows.
+    const columns = dailyColumnsOf({ counts, kOfRow, observerOfUnit, from: 0, to: counts.length });
+    const single = whole.daily.findIndex((row) => row.sd === null);
+    expect(single).toBeGreaterThanOrEqual(0);
+    expect(columns.sd[single]).toBeNaN();
     expect(whole.daily.length).toBeGreaterThan(800);
 
     // The incremental refresh builds each day from database rows through

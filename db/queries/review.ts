@@ -268,10 +268,27 @@ export async function listDecisionLog(query: DecisionLogQueryInput) {
   const filters = decisionLogFilters(query);
   const where = filters.length > 0 ? and(...filters) : undefined;
   const db = getDb();
+  // The page's ids first, from review_decisions alone (and observations,
+  // to filter by observer), then their lines with everything joined: the
+  // lines skipped to reach a deep page are then index entries, not rows
+  // joined to three tables. Every decision has its count, observer and
+  // decider (foreign keys), so the joins drop no line and the pages are
+  // the same.
+  const direction = query.sort === "decidedAt:asc" ? asc : desc;
+  const pageIds = (
+    query.observerId
+      ? db
+          .select({ id: reviewDecisions.id })
+          .from(reviewDecisions)
+          .innerJoin(observations, eq(observations.id, reviewDecisions.observationId))
+      : db.select({ id: reviewDecisions.id }).from(reviewDecisions)
+  )
+    .where(where)
+    .orderBy(direction(reviewDecisions.createdAt), direction(reviewDecisions.id))
+    .limit(query.pageSize)
+    .offset((query.page - 1) * query.pageSize);
   const [rows, totals] = await Promise.all([
-    selectDecisionLines({ where, sort: query.sort })
-      .limit(query.pageSize)
-      .offset((query.page - 1) * query.pageSize),
+    selectDecisionLines({ where: inArray(reviewDecisions.id, pageIds), sort: query.sort }),
     // The join is needed only to filter by observer; without it the count reads the index alone.
     query.observerId
       ? db

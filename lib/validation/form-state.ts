@@ -8,10 +8,21 @@ export type FormState = {
 };
 
 export function fieldErrorsFromZod(error: z.ZodError): Record<string, string> {
+  return fieldErrorsFromIssues(error.issues);
+}
+
+/**
+ * The first message for each field, keyed by its dotted path ("_form" for
+ * the whole form), from zod's issues or from an API error's issues (whose
+ * path is already dotted text).
+ */
+export function fieldErrorsFromIssues(
+  issues: ReadonlyArray<{ path: ReadonlyArray<PropertyKey> | string; message: string }>,
+): Record<string, string> {
   const out: Record<string, string> = {};
-  for (const issue of error.issues) {
-    const key = issue.path.map(String).join(".") || "_form";
-    out[key] ??= issue.message;
+  for (const issue of issues) {
+    const key = typeof issue.path === "string" ? issue.path : issue.path.map(String).join(".");
+    out[key || "_form"] ??= issue.message;
   }
   return out;
 }

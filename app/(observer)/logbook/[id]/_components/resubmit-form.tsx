@@ -6,6 +6,7 @@ import { useState } from "react";
 import { Button } from "@/components/ui/button";
 import { Field, FormMessage, Input, Select, TextArea } from "@/components/ui/field";
 import { fromUtInputs, toUtInputs } from "@/lib/format/time";
+import { fieldErrorsFromIssues } from "@/lib/validation/form-state";
 import { observationInputSchema, SEEING_LABELS } from "@/lib/validation/observation";
 
 export type ResubmitValues = {
@@ -91,7 +92,7 @@ export function ResubmitForm({
     if (split) for (const [key] of HEMISPHERE_FIELDS) draft[key] = values[key];
     const parsed = observationInputSchema.safeParse(draft);
     if (!parsed.success) {
-      setErrors(collectErrors(parsed.error.issues));
+      setErrors(fieldErrorsFromIssues(parsed.error.issues));
       return;
     }
     setErrors({});
@@ -109,7 +110,7 @@ export function ResubmitForm({
       });
       const body = await res.json();
       if (!res.ok) {
-        setErrors(collectErrors(body?.error?.issues ?? []));
+        setErrors(fieldErrorsFromIssues(body?.error?.issues ?? []));
         setMessage(body?.error?.message ?? "The count could not be sent back.");
         return;
       }
@@ -216,15 +217,4 @@ export function ResubmitForm({
       </Button>
     </form>
   );
-}
-
-function collectErrors(
-  issues: Array<{ path: PropertyKey[] | string; message: string }>,
-): Record<string, string> {
-  const out: Record<string, string> = {};
-  for (const issue of issues) {
-    const key = Array.isArray(issue.path) ? issue.path.map(String).join(".") : issue.path;
-    out[key || "_form"] ??= issue.message;
-  }
-  return out;
 }

@@ -11,6 +11,7 @@ import { Button } from "@/components/ui/button";
 import { Field, FormMessage, Input, Select, TextArea } from "@/components/ui/field";
 import { computeRelativeNumber } from "@/lib/counts/relative-number";
 import { formatLocal, formatRelativeNumber, fromUtInputs, toUtInputs } from "@/lib/format/time";
+import { fieldErrorsFromIssues } from "@/lib/validation/form-state";
 import { observationInputSchema, SEEING_LABELS } from "@/lib/validation/observation";
 
 type InstrumentOption = { id: string; name: string; k: number };
@@ -104,7 +105,7 @@ export function ObservationForm({
     if (split) for (const key of COUNT_FIELDS.slice(2)) draft[key] = values[key];
     const parsed = observationInputSchema.safeParse(draft);
     if (!parsed.success) {
-      setErrors(collectErrors(parsed.error.issues));
+      setErrors(fieldErrorsFromIssues(parsed.error.issues));
       return;
     }
     setErrors({});
@@ -127,7 +128,7 @@ export function ObservationForm({
       });
       const body = await res.json();
       if (!res.ok) {
-        setErrors(collectErrors(body?.error?.issues ?? []));
+        setErrors(fieldErrorsFromIssues(body?.error?.issues ?? []));
         setMessage(body?.error?.message ?? "The count could not be saved.");
         return;
       }
@@ -343,15 +344,4 @@ export function ObservationForm({
       </Button>
     </form>
   );
-}
-
-function collectErrors(
-  issues: Array<{ path: PropertyKey[] | string; message: string }>,
-): Record<string, string> {
-  const out: Record<string, string> = {};
-  for (const issue of issues) {
-    const key = Array.isArray(issue.path) ? issue.path.map(String).join(".") : issue.path;
-    out[key || "_form"] ??= issue.message;
-  }
-  return out;
 }

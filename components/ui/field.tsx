@@ -111,6 +111,41 @@ export function DateFilter({
   );
 }
 
+/**
+ * A choice filter above a table: its first option, `anyLabel`, is the empty
+ * value (no filtering); `onChange` gets the value chosen.
+ */
+export function SelectFilter({
+  id,
+  label,
+  value,
+  onChange,
+  anyLabel,
+  options,
+  className = "w-56",
+}: {
+  id: string;
+  label: string;
+  value: string;
+  onChange: (value: string) => void;
+  anyLabel: string;
+  options: ReadonlyArray<{ value: string; label: string }>;
+  className?: string;
+}) {
+  return (
+    <FilterField id={id} label={label} className={className}>
+      <Select id={id} value={value} onChange={(e) => onChange(e.target.value)}>
+        <option value="">{anyLabel}</option>
+        {options.map((option) => (
+          <option key={option.value} value={option.value}>
+            {option.label}
+          </option>
+        ))}
+      </Select>
+    </FilterField>
+  );
+}
+
 /** Shown beside a table's filters once any is set; puts every filter back. */
 export function ClearFiltersButton({ onClear }: { onClear: () => void }) {
   return (

@@ -5,14 +5,7 @@ import Link from "next/link";
 import { useMemo, useState } from "react";
 
 import { Button } from "@/components/ui/button";
-import {
-  ClearFiltersButton,
-  DateFilter,
-  FilterField,
-  FormMessage,
-  Input,
-  Select,
-} from "@/components/ui/field";
+import { ClearFiltersButton, DateFilter, FormMessage, Input, SelectFilter } from "@/components/ui/field";
 import { ObserverTag } from "@/components/review/observer-tag";
 import { DataTable, type ServerTableFeatures } from "@/components/ui/data-table";
 import { useServerPage } from "@/components/ui/use-server-page";
@@ -341,44 +334,32 @@ export function ReviewQueue({
             resetView();
           }}
         />
-        <FilterField id="queue-observer" label="Observer">
-          <Select
-            id="queue-observer"
-            value={observerId}
-            onChange={(e) => {
-              setObserverId(e.target.value);
-              resetView();
-            }}
-            className="w-56"
-          >
-            <option value="">Every observer</option>
-            {observers.map((o) => (
-              <option key={o.id} value={o.id}>
-                {o.displayName} ({o.code})
-              </option>
-            ))}
-          </Select>
-        </FilterField>
-        <FilterField id="queue-flag" label="Flags">
-          <Select
-            id="queue-flag"
-            value={flag}
-            onChange={(e) => {
-              setFlag(e.target.value);
-              resetView();
-            }}
-            className="w-56"
-          >
-            <option value="">Flagged or not</option>
-            <option value="any">Any flag</option>
-            <option value="none">No flag</option>
-            {FLAG_REASON_LIST.map((reason) => (
-              <option key={reason} value={reason}>
-                {FLAG_LABELS[reason]}
-              </option>
-            ))}
-          </Select>
-        </FilterField>
+        <SelectFilter
+          id="queue-observer"
+          label="Observer"
+          value={observerId}
+          onChange={(value) => {
+            setObserverId(value);
+            resetView();
+          }}
+          anyLabel="Every observer"
+          options={observers.map((o) => ({ value: o.id, label: `${o.displayName} (${o.code})` }))}
+        />
+        <SelectFilter
+          id="queue-flag"
+          label="Flags"
+          value={flag}
+          onChange={(value) => {
+            setFlag(value);
+            resetView();
+          }}
+          anyLabel="Flagged or not"
+          options={[
+            { value: "any", label: "Any flag" },
+            { value: "none", label: "No flag" },
+            ...FLAG_REASON_LIST.map((reason) => ({ value: reason, label: FLAG_LABELS[reason] })),
+          ]}
+        />
         {filtered ? (
           <ClearFiltersButton
             onClear={() => {

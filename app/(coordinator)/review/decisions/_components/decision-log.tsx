@@ -7,7 +7,7 @@ import { useMemo, useState } from "react";
 import { ObserverTag } from "@/components/review/observer-tag";
 import { DataTable, type ServerTableFeatures } from "@/components/ui/data-table";
 import { useServerPage } from "@/components/ui/use-server-page";
-import { ClearFiltersButton, DateFilter, FilterField, Select } from "@/components/ui/field";
+import { ClearFiltersButton, DateFilter, SelectFilter } from "@/components/ui/field";
 import { StatusBadge } from "@/components/status-badge";
 import type { DecisionLogRow } from "@/db/queries/review";
 import type { ReviewAction } from "@/db/schema";
@@ -156,57 +156,42 @@ export function DecisionLog({
   return (
     <div className="flex flex-col gap-3">
       <div className="flex flex-wrap items-end gap-3">
-        <FilterField id="log-action" label="Decision" className="w-52">
-          <Select
-            id="log-action"
-            value={action}
-            onChange={(e) => {
-              setAction(e.target.value);
-              firstPage();
-            }}
-          >
-            <option value="">Every decision</option>
-            {DECISION_LOG_ACTIONS.map((a) => (
-              <option key={a} value={a}>
-                {REVIEW_ACTION_WORDS[a]}
-              </option>
-            ))}
-          </Select>
-        </FilterField>
-        <FilterField id="log-observer" label="Observer" className="w-60">
-          <Select
-            id="log-observer"
-            value={observerId}
-            onChange={(e) => {
-              setObserverId(e.target.value);
-              firstPage();
-            }}
-          >
-            <option value="">Every observer</option>
-            {observers.map((o) => (
-              <option key={o.id} value={o.id}>
-                {o.displayName} ({o.code})
-              </option>
-            ))}
-          </Select>
-        </FilterField>
-        <FilterField id="log-actor" label="Decided by" className="w-52">
-          <Select
-            id="log-actor"
-            value={actorUserId}
-            onChange={(e) => {
-              setActorUserId(e.target.value);
-              firstPage();
-            }}
-          >
-            <option value="">Anyone</option>
-            {deciders.map((d) => (
-              <option key={d.id} value={d.id}>
-                {d.name}
-              </option>
-            ))}
-          </Select>
-        </FilterField>
+        <SelectFilter
+          id="log-action"
+          label="Decision"
+          className="w-52"
+          value={action}
+          onChange={(value) => {
+            setAction(value);
+            firstPage();
+          }}
+          anyLabel="Every decision"
+          options={DECISION_LOG_ACTIONS.map((a) => ({ value: a, label: REVIEW_ACTION_WORDS[a] }))}
+        />
+        <SelectFilter
+          id="log-observer"
+          label="Observer"
+          className="w-60"
+          value={observerId}
+          onChange={(value) => {
+            setObserverId(value);
+            firstPage();
+          }}
+          anyLabel="Every observer"
+          options={observers.map((o) => ({ value: o.id, label: `${o.displayName} (${o.code})` }))}
+        />
+        <SelectFilter
+          id="log-actor"
+          label="Decided by"
+          className="w-52"
+          value={actorUserId}
+          onChange={(value) => {
+            setActorUserId(value);
+            firstPage();
+          }}
+          anyLabel="Anyone"
+          options={deciders.map((d) => ({ value: d.id, label: d.name }))}
+        />
         <DateFilter
           id="log-from"
           label="Decided from (UT)"

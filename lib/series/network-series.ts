@@ -140,9 +140,9 @@ export function summariseDay({
 }): DailyRow[] {
   const sums = new DaySums();
   for (const value of values) sums.add(value.total, value.north, value.south);
-  const rows: DailyRow[] = [];
-  sums.appendRows(day, rows);
-  return rows;
+  const columns = createDailyColumns(3);
+  sums.appendColumns(day, columns);
+  return dailyRowsOf(columns);
 }
 
 /**
@@ -176,13 +176,7 @@ class DaySums {
     }
   }
 
-  appendRows(day: string, rows: DailyRow[]): void {
-    pushDailyRow(rows, day, "all", this.n, this.sum, this.sumSquares);
-    pushDailyRow(rows, day, "N", this.nSplit, this.northSum, this.northSquares);
-    pushDailyRow(rows, day, "S", this.nSplit, this.southSum, this.southSquares);
-  }
-
-  /** The same rows as appendRows, into columns (room for three more rows is the caller's to make). */
+  /** The day's rows (whole disk, north, south; none for a hemisphere without a split), into columns with room for three more. */
   appendColumns(day: string, columns: DailyColumns): void {
     pushDailyColumns(columns, day, "all", this.n, this.sum, this.sumSquares);
     pushDailyColumns(columns, day, "N", this.nSplit, this.northSum, this.northSquares);
@@ -208,19 +202,6 @@ function pushDailyColumns(
   columns.sumSquares[i] = sumSquares;
   columns.mean[i] = summary.relativeNumber;
   columns.sd[i] = summary.sd ?? Number.NaN;
-}
-
-function pushDailyRow(
-  rows: DailyRow[],
-  day: string,
-  hemisphere: Hemisphere,
-  observers: number,
-  sum: number,
-  sumSquares: number,
-): void {
-  const summary = summariseSums({ n: observers, sum, sumSquares });
-  if (!summary) return;
-  rows.push({ day, hemisphere, observers, sum, sumSquares, mean: summary.relativeNumber, sd: summary.sd });
 }
 
 /** A month's row from its days' means (in day order); null when no day has data. */

@@ -493,6 +493,7 @@ export async function runFullRecompute({
     mark = now;
   };
   const dirty = watchDirtyDays();
+  let kOfRow: Float64Array | null = null;
   try {
     const settings = given ?? (await getKSettings());
     await onProgress(0.02, "Reading accepted counts");
@@ -511,6 +512,7 @@ export async function runFullRecompute({
           referenceLabel: () => "",
           threads: 1 as const,
         };
+    kOfRow = fitted.kOfRow;
     lap("k");
 
     // The result goes to the helper thread as it is made, which writes it
@@ -612,7 +614,31 @@ export async function runFullRecompute({
     };
   } finally {
     dirty.stop();
+    if (kOfRow) giveBackKOfRow(kOfRow);
   }
+}
+
+/**
+ * The array of every count's k (8 MB for a million counts), kept from one
+ * recompute for the next rather than made anew: memory of that size, made
+ * and dropped each time, sets off collections. Taken by one recompute at a
+ * time (a second one meanwhile gets a new array); every element is written
+ * before it is read.
+ */
+let spareKOfRow: Float64Array | null = null;
+
+function takeKOfRow(length: number): Float64Array {
+  const spare = spareKOfRow;
+  if (spare && spare.length >= length) {
+    spareKOfRow = null;
+    return spare.subarray(0, length);
+  }
+  return new Float64Array(length);
+}
+
+function giveBackKOfRow(kOfRow: Float64Array): void {
+  const whole = new Float64Array(kOfRow.buffer);
+  if (!spareKOfRow || spareKOfRow.length < whole.length) spareKOfRow = whole;
 }
 
 /** Fits every unit's k for every period, and the k that scales each count. */
@@ -697,7 +723,7 @@ async function fitAllK({
       );
   }
   const kOf = buildKLookup({ fits, unitCount: units.length });
-  const kOfRow = new Float64Array(counts.length);
+  const kOfRow = takeKOfRow(counts.length);
   const kOfUnit = new Float64Array(units.length);
   for (const period of periods) {
     for (let unit = 0; unit < units.length; unit++) kOfUnit[unit] = kOf(unit, period.key);
@@ -727,7 +753,7 @@ async function resolveStoredK({
       computedAt: Number(r.computedAt),
     })),
   );
-  const kOfRow = new Float64Array(counts.length);
+  const kOfRow = takeKOfRow(counts.length);
   let day = "";
   let dayNumber = Number.NaN;
   for (let i = 0; i < counts.length; i++) {

@@ -7,6 +7,7 @@
  * held fixed ({@link estimateNetworkK}).
  */
 
+import { lendFloat64, lendInt32 } from "./scratch";
 import { computeMedianInPlace, computeRobustScale } from "./robust";
 import { assignDaySlots, formatDayNumber, toDayNumber } from "./series";
 
@@ -524,10 +525,11 @@ function prepareRatioOfSumsStep({
     for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++)
       if ((raws[j] as number) > 0) positives++;
   }
-  const positiveSlots = new Int32Array(positives);
-  const positiveRaws = new Float64Array(positives);
+  // Lent (./scratch.ts): only the positions written below are read.
+  const positiveSlots = lendInt32("ratio-of-sums:positive-slots", positives);
+  const positiveRaws = lendFloat64("ratio-of-sums:positive-raws", positives);
   const positiveOffsets = new Int32Array(observerCount + 1);
-  const usableSlots = new Int32Array(positives);
+  const usableSlots = lendInt32("ratio-of-sums:usable-slots", positives);
   const usableOffsets = new Int32Array(observerCount + 1);
   const sumRaw = new Float64Array(observerCount);
   const sumWeightedRaw = new Float64Array(observerCount);
@@ -632,7 +634,7 @@ function layoutColumns({
   raws: Float64Array;
 }): Layout {
   const count = observerOf.length;
-  const daySlots = assignDaySlots(dayNumbers);
+  const daySlots = assignDaySlots(dayNumbers, lendInt32("layout:day-slots", dayNumbers.length));
   const observerCount = observerIds.length;
   const offsets = new Int32Array(observerCount + 1);
   for (let j = 0; j < count; j++) {
@@ -645,8 +647,9 @@ function layoutColumns({
     offsets[i + 1] = (offsets[i + 1] as number) + (offsets[i] as number);
   }
   const cursor = offsets.slice(0, observerCount);
-  const slots = new Int32Array(count);
-  const raws = new Float64Array(count);
+  // Lent (./scratch.ts): every position is written just below.
+  const slots = lendInt32("layout:slots", count);
+  const raws = lendFloat64("layout:raws", count);
   for (let j = 0; j < count; j++) {
     const i = observerOf[j] as number;
     const position = cursor[i] as number;

@@ -108,13 +108,17 @@ export function splitMonthIndex(monthIndex: number): { year: number; month: numb
  * reasonable (25 years is only ~9,100 slots); a sparse Map otherwise, so a
  * stray far-off date cannot make us allocate gigabytes.
  */
-export function assignDaySlots(dayNumbers: Int32Array | Float64Array): {
+export function assignDaySlots(
+  dayNumbers: Int32Array | Float64Array,
+  /** Where to put the slots (every element is written); a new array by default. */
+  slots: Int32Array = new Int32Array(dayNumbers.length),
+): {
   slots: Int32Array;
   slotCount: number;
   dayNumberOfSlot: Float64Array;
 } {
   const count = dayNumbers.length;
-  const slots = new Int32Array(count);
+  if (slots.length !== count) throw new RangeError(`${count} days need ${count} slots, not ${slots.length}`);
   let min = Number.POSITIVE_INFINITY;
   let max = Number.NEGATIVE_INFINITY;
   for (let i = 0; i < count; i++) {

@@ -17,6 +17,8 @@ import {
   type KPair,
 } from "@/lib/counts/k-coefficient";
 
+import { lendFloat64, lendInt32 } from "@/lib/counts/scratch";
+
 import type { AcceptedCounts } from "./accepted-counts";
 
 export type KUnit = { observerId: string; instrumentId: string };
@@ -72,14 +74,15 @@ function collectPeriodCounts({
 }): PeriodPairs {
   const size = to - from;
   const pairs: PeriodPairs = {
-    unit: new Int32Array(size),
-    dayNumber: new Int32Array(size),
-    raw: new Float64Array(size),
+    // Lent (lib/counts/scratch.ts): every element read below is written first.
+    unit: lendInt32("period-counts:unit", size),
+    dayNumber: lendInt32("period-counts:day", size),
+    raw: lendFloat64("period-counts:raw", size),
     length: 0,
   };
   const lastDay = new Int32Array(unitCount).fill(-2_000_000_000);
   const position = new Int32Array(unitCount);
-  const repeats = new Float64Array(size);
+  const repeats = lendFloat64("period-counts:repeats", size);
   for (let i = from; i < to; i++) {
     const unit = counts.unit[i] as number;
     const day = counts.dayNumber[i] as number;

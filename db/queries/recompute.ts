@@ -1,6 +1,6 @@
 import "server-only";
 
-import type { Client, InValue, Transaction } from "@libsql/client";
+import type { Client, Transaction } from "@libsql/client";
 
 import { formatDayNumber } from "@/lib/counts/series";
 import { makeOrderedIdMaker } from "@/lib/ids/ordered-ids";
@@ -374,7 +374,7 @@ const K_COLUMNS = [
   "reference",
 ];
 
-/** The rows of k_coefficients for the fitted k values. */
+/** The rows of k_coefficients for the fitted k values, column by column (ColumnarRows). */
 function kCoefficientRows({
   fitted,
   units,
@@ -383,7 +383,7 @@ function kCoefficientRows({
   fitted: { fits: KFit[]; referenceLabel: (role: KFit["role"]) => string };
   units: KUnit[];
   settings: KSettings;
-}): InValue[][] {
+}): ColumnarRows {
   const makeId = makeOrderedIdMaker({ startMs: Date.now() });
   // In the order of the observer–period index (and ordered ids for the
   // key): each index then grows at its end instead of all over its pages,
@@ -395,33 +395,40 @@ function kCoefficientRows({
   );
   const rank = new Int32Array(units.length);
   byObserver.forEach((unit, position) => (rank[unit] = position));
-  const kInIndexOrder = [...fitted.fits].sort((a, b) =>
+  const fits = [...fitted.fits].sort((a, b) =>
     units[a.unit]!.observerId === units[b.unit]!.observerId
       ? a.periodIndex - b.periodIndex
       : (rank[a.unit] as number) - (rank[b.unit] as number),
   );
   const periods = new Map<number, ReturnType<typeof describePeriod>>();
-  return kInIndexOrder.map((fit, position) => {
-    let period = periods.get(fit.periodIndex);
+  const periodOf = (index: number) => {
+    let period = periods.get(index);
     if (!period) {
-      period = describePeriod({ index: fit.periodIndex, kind: settings.periodKind });
-      periods.set(fit.periodIndex, period);
+      period = describePeriod({ index, kind: settings.periodKind });
+      periods.set(index, period);
     }
-    const unit = units[fit.unit]!;
-    return [
-      makeId(position),
-      unit.observerId,
-      unit.instrumentId,
-      period.start,
-      period.end,
-      fit.k,
-      fit.sigma,
-      fit.commonDays,
-      settings.method,
-      settings.periodKind,
-      fitted.referenceLabel(fit.role),
-    ];
-  });
+    return period;
+  };
+  const text = (valueOf: (fit: KFit, position: number) => string) => fits.map(valueOf);
+  return {
+    table: "k_coefficients",
+    columns: K_COLUMNS,
+    length: fits.length,
+    // The order of K_COLUMNS.
+    values: [
+      text((_, position) => makeId(position)),
+      text((fit) => units[fit.unit]!.observerId),
+      text((fit) => units[fit.unit]!.instrumentId),
+      text((fit) => periodOf(fit.periodIndex).start),
+      text((fit) => periodOf(fit.periodIndex).end),
+      Float64Array.from(fits, (fit) => fit.k),
+      Float64Array.from(fits, (fit) => fit.sigma ?? Number.NaN),
+      Int32Array.from(fits, (fit) => fit.commonDays),
+      text(() => settings.method),
+      text(() => settings.periodKind),
+      text((fit) => fitted.referenceLabel(fit.role)),
+    ],
+  };
 }
 
 /**
@@ -522,7 +529,7 @@ export async function runFullRecompute({
     const writer = openResultWriter({ threads });
     let series: ReturnType<typeof seriesFromDailyColumns>;
     let days = 0;
-    let kRows: InValue[][] = [];
+    let kCoefficients = 0;
     try {
       writer.add([
         ...(refitK ? [{ sql: "DELETE FROM k_coefficients" }] : []),
@@ -546,13 +553,15 @@ export async function runFullRecompute({
         writer.add([dailyRowsInKeyOrder(columns)]);
         for (const hemisphere of columns.hemisphere) if (hemisphere === "all") days++;
         if (slices.length === 1 && refitK) {
-          kRows = kCoefficientRows({ fitted, units, settings });
-          writer.add([{ table: "k_coefficients", columns: K_COLUMNS, rows: kRows }]);
+          const kRows = kCoefficientRows({ fitted, units, settings });
+          kCoefficients = kRows.length;
+          writer.add([kRows]);
         }
       }
       if (slices.length === 0 && refitK) {
-        kRows = kCoefficientRows({ fitted, units, settings });
-        writer.add([{ table: "k_coefficients", columns: K_COLUMNS, rows: kRows }]);
+        const kRows = kCoefficientRows({ fitted, units, settings });
+        kCoefficients = kRows.length;
+        writer.add([kRows]);
       }
       series = seriesFromDailyColumns(slices);
       lap("series");
@@ -603,7 +612,7 @@ export async function runFullRecompute({
       observations: counts.length,
       units: units.length,
       periods: fitted.periods,
-      kCoefficients: kRows.length,
+      kCoefficients,
       countsReused: loaded.reused,
       writtenOn: writer.streaming ? "helper" : "server",
       days,

@@ -515,6 +515,7 @@ export async function runFullRecompute({
       : {
           fits: [] as KFit[],
           kOfRow: await resolveStoredK({ counts, units }),
+          fillKOfRow: () => undefined,
           periods: 0,
           referenceLabel: () => "",
           threads: 1 as const,
@@ -531,37 +532,34 @@ export async function runFullRecompute({
     let days = 0;
     let kCoefficients = 0;
     try {
+      // First what needs nothing more: the deletions, then the k rows; the
+      // helper writes them while this thread scales the counts and builds
+      // the first daily rows, so it never waits for work.
       writer.add([
         ...(refitK ? [{ sql: "DELETE FROM k_coefficients" }] : []),
         { sql: "DELETE FROM series_daily" },
         { sql: "DELETE FROM series_monthly" },
         { sql: "DELETE FROM series_yearly" },
       ]);
+      if (refitK) {
+        const kRows = kCoefficientRows({ fitted, units, settings });
+        kCoefficients = kRows.length;
+        writer.add([kRows]);
+      }
       // The daily rows a few years at a time (about 50 ms in all on a
       // million counts), each slice's rows written as soon as they are made;
       // when written here at the end, other requests get a turn in between.
-      // The k rows are made once the first slice is on its way, so the
-      // helper is never left waiting for work.
       const slices: DailyColumns[] = [];
       for (const { from, to } of sliceByKey({
         counts,
         keyOf: (day) => Math.floor(day / DAYS_PER_SERIES_SLICE),
       })) {
         if (!writer.streaming) await yieldToServer();
+        fitted.fillKOfRow(from, to);
         const columns = dailyColumnsOf({ counts, kOfRow: fitted.kOfRow, observerOfUnit, from, to });
         slices.push(columns);
         writer.add([dailyRowsInKeyOrder(columns)]);
         for (const hemisphere of columns.hemisphere) if (hemisphere === "all") days++;
-        if (slices.length === 1 && refitK) {
-          const kRows = kCoefficientRows({ fitted, units, settings });
-          kCoefficients = kRows.length;
-          writer.add([kRows]);
-        }
-      }
-      if (slices.length === 0 && refitK) {
-        const kRows = kCoefficientRows({ fitted, units, settings });
-        kCoefficients = kRows.length;
-        writer.add([kRows]);
       }
       series = seriesFromDailyColumns(slices);
       lap("series");
@@ -672,7 +670,9 @@ async function fitAllK({
   threads: 1 | 2;
 }): Promise<{
   fits: KFit[];
+  /** Every count's k, written a range at a time by fillKOfRow (all of it before it is read). */
   kOfRow: Float64Array;
+  fillKOfRow: (from: number, to: number) => void;
   periods: number;
   referenceLabel: (role: KFit["role"]) => string;
   threads: 1 | 2;
@@ -734,11 +734,21 @@ async function fitAllK({
   const kOf = buildKLookup({ fits, unitCount: units.length });
   const kOfRow = takeKOfRow(counts.length);
   const kOfUnit = new Float64Array(units.length);
-  for (const period of periods) {
-    for (let unit = 0; unit < units.length; unit++) kOfUnit[unit] = kOf(unit, period.key);
-    for (let i = period.from; i < period.to; i++) kOfRow[i] = kOfUnit[counts.unit[i] as number] as number;
-  }
-  return { fits, kOfRow, periods: periods.length, referenceLabel, threads: fitted.threads };
+  let periodOfUnits = -1;
+  /** Writes the k of counts [from, to) into kOfRow, period by period. */
+  const fillKOfRow = (from: number, to: number) => {
+    for (const [position, period] of periods.entries()) {
+      const start = Math.max(from, period.from);
+      const end = Math.min(to, period.to);
+      if (start >= end) continue;
+      if (periodOfUnits !== position) {
+        for (let unit = 0; unit < units.length; unit++) kOfUnit[unit] = kOf(unit, period.key);
+        periodOfUnits = position;
+      }
+      for (let i = start; i < end; i++) kOfRow[i] = kOfUnit[counts.unit[i] as number] as number;
+    }
+  };
+  return { fits, kOfRow, fillKOfRow, periods: periods.length, referenceLabel, threads: fitted.threads };
 }
 
 /** The k of every count from the stored coefficients (no refit). */

@@ -163,6 +163,11 @@ class DaySums {
   southSum = 0;
   southSquares = 0;
 
+  reset(): void {
+    this.n = this.sum = this.sumSquares = 0;
+    this.nSplit = this.northSum = this.northSquares = this.southSum = this.southSquares = 0;
+  }
+
   add(total: number, north: number | null, south: number | null): void {
     this.n += 1;
     this.sum += total;
@@ -329,6 +334,8 @@ export function dailyColumnsOf({
   to: number;
 }): DailyColumns {
   const { dayNumber: dayOf, unit: unitOf, raw: rawOf, northRaw: northOf, southRaw: southOf } = counts;
+  // Splits are told apart by sign below, without a branch.
+  if (NO_SPLIT >= 0) throw new Error("NO_SPLIT must be negative");
   let dayCount = 0;
   for (let i = start; i < end; i++) if (i === start || dayOf[i] !== dayOf[i - 1]) dayCount++;
   const columns = createDailyColumns(3 * dayCount);
@@ -342,29 +349,30 @@ export function dailyColumnsOf({
   const n = new Int32Array(observerCount);
   const nSplit = new Int32Array(observerCount);
   const seen = new Int32Array(observerCount);
+  const sums = new DaySums();
   let from = start;
   while (from < end) {
     const dayNumber = dayOf[from] as number;
-    let to = from + 1;
-    while (to < end && dayOf[to] === dayNumber) to++;
     let seenCount = 0;
-    for (let i = from; i < to; i++) {
-      const observer = observerOfUnit[unitOf[i] as number] as number;
+    let to = from;
+    for (; to < end && dayOf[to] === dayNumber; to++) {
+      const observer = observerOfUnit[unitOf[to] as number] as number;
       if (n[observer] === 0) seen[seenCount++] = observer;
-      const k = kOfRow[i] as number;
-      total[observer] = (total[observer] as number) + k * (rawOf[i] as number);
+      const k = kOfRow[to] as number;
+      total[observer] = (total[observer] as number) + k * (rawOf[to] as number);
       n[observer] = (n[observer] as number) + 1;
-      const northRaw = northOf[i] as number;
-      const southRaw = southOf[i] as number;
-      if (northRaw !== NO_SPLIT && southRaw !== NO_SPLIT) {
-        north[observer] = (north[observer] as number) + k * northRaw;
-        south[observer] = (south[observer] as number) + k * southRaw;
-        nSplit[observer] = (nSplit[observer] as number) + 1;
-      }
+      // Without a branch: split is 1 when both hemispheres were counted,
+      // else 0 (NO_SPLIT is negative), and then adds zeros.
+      const northRaw = northOf[to] as number;
+      const southRaw = southOf[to] as number;
+      const split = ((northRaw | southRaw) >>> 31) ^ 1;
+      north[observer] = (north[observer] as number) + k * (northRaw * split);
+      south[observer] = (south[observer] as number) + k * (southRaw * split);
+      nSplit[observer] = (nSplit[observer] as number) + split;
     }
     // Each observer's value of the day, in order of first appearance, as
     // combineObserverCounts gives it to summariseDay.
-    const sums = new DaySums();
+    sums.reset();
     for (let slot = 0; slot < seenCount; slot++) {
       const observer = seen[slot] as number;
       const splits = nSplit[observer] as number;

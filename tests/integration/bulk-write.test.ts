@@ -98,6 +98,48 @@ describe.each([
     ]);
   });
 
+  it("stores every row as given when some statements' rows share a column's value", async () => {
+    const db = databaseOf();
+    // Labels: the same for rows 0–699 (one full statement of 512 rows and
+    // part of the next), then each its own. Values: all NULL up to 1,023,
+    // then 2.5 up to 1,535, then each its own. Whole statements of shared
+    // values, mixed ones, and a short last one.
+    const length = 1_800;
+    const label = (i: number) => (i < 700 ? "shared" : `row ${i}`);
+    const value = (i: number) => (i < 1_024 ? null : i < 1_536 ? 2.5 : i / 8);
+    const expected = Array.from({ length }, (_, i) => [i, label(i), value(i)]);
+    // Twice each way, the second time with other numbers through the same statements.
+    for (const offset of [0, 10_000]) {
+      for (const shape of ["rows", "columns"] as const) {
+        const shifted = expected.map(([n, l, v]) => [Number(n) + offset, l, v]);
+        await writeAllOrNothing(db, [
+          { sql: "DELETE FROM bulk_test" },
+          shape === "rows"
+            ? { table: "bulk_test", columns: ["n", "label", "value"], rows: shifted }
+            : {
+                table: "bulk_test",
+                columns: ["n", "label", "value"],
+                length,
+                values: [
+                  Int32Array.from(shifted, ([n]) => Number(n)),
+                  shifted.map(([, l]) => String(l)),
+                  Float64Array.from(shifted, ([, , v]) => (v === null ? Number.NaN : Number(v))),
+                ],
+              },
+        ]);
+        const stored = await db.$client.execute("SELECT n, label, value FROM bulk_test ORDER BY n");
+        expect(
+          stored.rows.map((r) => [r.n, r.label, r.value]),
+          `${shape}, from ${offset}`,
+        ).toEqual(shifted);
+      }
+    }
+    await writeAllOrNothing(db, [
+      { sql: "DELETE FROM bulk_test" },
+      { table: "bulk_test", columns: ["n", "label", "value"], rows: rowsOf(3) },
+    ]);
+  });
+
   it("stores nothing when any step fails, and says why", async () => {
     const db = databaseOf();
     const failing: Array<[string, WriteStep[]]> = [

@@ -407,13 +407,29 @@ export function seriesFromDailyColumns(slices: ReadonlyArray<DailyColumns>): {
   monthly: MonthlyRow[];
   yearly: YearlyRow[];
 } {
+  // Each day's rows share one day string, so its month is cut once per day,
+  // and each hemisphere's list of the month is looked up once per month.
   const meansByKey = new Map<string, number[]>();
+  const current = new Map<Hemisphere, { month: string; means: number[] }>();
+  let lastDay = "";
+  let month = "";
   for (const columns of slices) {
     for (let i = 0; i < columns.length; i++) {
-      const key = `${columns.hemisphere[i]!}|${columns.day[i]!.slice(0, 7)}`;
-      const list = meansByKey.get(key);
-      if (list) list.push(columns.mean[i] as number);
-      else meansByKey.set(key, [columns.mean[i] as number]);
+      const day = columns.day[i]!;
+      if (day !== lastDay) {
+        lastDay = day;
+        month = day.slice(0, 7);
+      }
+      const hemisphere = columns.hemisphere[i]!;
+      let entry = current.get(hemisphere);
+      if (entry?.month !== month) {
+        const key = `${hemisphere}|${month}`;
+        let means = meansByKey.get(key);
+        if (!means) meansByKey.set(key, (means = []));
+        entry = { month, means };
+        current.set(hemisphere, entry);
+      }
+      entry.means.push(columns.mean[i] as number);
     }
   }
   const monthly = summariseMonthsFromMeans(meansByKey);

@@ -107,11 +107,15 @@ describe.each([
     const length = 1_800;
     const label = (i: number) => (i < 700 ? "shared" : `row ${i}`);
     const value = (i: number) => (i < 1_024 ? null : i < 1_536 ? 2.5 : i / 8);
-    const expected = Array.from({ length }, (_, i) => [i, label(i), value(i)]);
+    const expected = Array.from({ length }, (_, i): [number, string, number | null] => [
+      i,
+      label(i),
+      value(i),
+    ]);
     // Twice each way, the second time with other numbers through the same statements.
     for (const offset of [0, 10_000]) {
       for (const shape of ["rows", "columns"] as const) {
-        const shifted = expected.map(([n, l, v]) => [Number(n) + offset, l, v]);
+        const shifted = expected.map(([n, l, v]): [number, string, number | null] => [n + offset, l, v]);
         await writeAllOrNothing(db, [
           { sql: "DELETE FROM bulk_test" },
           shape === "rows"
@@ -121,9 +125,9 @@ describe.each([
                 columns: ["n", "label", "value"],
                 length,
                 values: [
-                  Int32Array.from(shifted, ([n]) => Number(n)),
-                  shifted.map(([, l]) => String(l)),
-                  Float64Array.from(shifted, ([, , v]) => (v === null ? Number.NaN : Number(v))),
+                  Int32Array.from(shifted, ([n]) => n),
+                  shifted.map(([, l]) => l),
+                  Float64Array.from(shifted, ([, , v]) => v ?? Number.NaN),
                 ],
               },
         ]);

@@ -10,7 +10,8 @@
  *      thread as it is made), against one
  *      bare SQL scan averaging 10g + s per day with the same client on the
  *      same table (as the planner runs it, over the table itself, and after
- *      ANALYZE, the last also in pairs timed back to back with a recompute);
+ *      ANALYZE, the last also in pairs: scans just before and just after
+ *      each of eight recomputes);
  *  (b) accepting one count and refreshing the series (refreshSeriesForDays)
  *      on the archives of 10,000 and 1,000,000 counts;
  *  (c) an Archive table page (50 rows, sorted, filtered) through the real
@@ -671,26 +672,33 @@ async function main() {
   report("(a) next two runs ÷ scan (after ANALYZE)", recomputeMs / analysedScanMs, "×");
   report("(a) recompute after idle ÷ scan (after ANALYZE)", settledMs / analysedScanMs, "×");
   report("(a) recompute after idle ÷ scan (no statistics)", settledMs / scanMs, "×");
-  // The machine's speed drifts by tens of per cent over a minute, so a
-  // recompute and a scan timed a minute apart compare badly. Pairs timed
-  // back to back (after a pause, a recompute, then the scan three times)
-  // give the ratio at one moment; their median is the figure to judge by.
-  const pairRatios: number[] = [];
-  for (let i = 0; i < 4; i++) {
-    await new Promise((resolve) => setTimeout(resolve, 4_000));
-    const recompute = (await timeIt(() => runFullRecompute())).ms;
+  // The machine's speed drifts by tens of per cent over a minute, and by
+  // as much from one second to the next, so a recompute and a scan timed
+  // apart compare badly. Each pair brackets one recompute (after a pause)
+  // between two scans (the median of three each, just before and just
+  // after) and divides by their mean: the ratio at one moment. The median
+  // of eight pairs is the figure to judge by.
+  const scanNow = async () => {
     const scan: number[] = [];
     for (let j = 0; j < 3; j++) scan.push((await timeIt(() => client.execute(SCAN))).ms);
-    pairRatios.push(recompute / median(scan));
+    return median(scan);
+  };
+  const pairRatios: number[] = [];
+  for (let i = 0; i < 8; i++) {
+    await new Promise((resolve) => setTimeout(resolve, 3_000));
+    const before = await scanNow();
+    const recompute = (await timeIt(() => runFullRecompute())).ms;
+    const after = await scanNow();
+    pairRatios.push(recompute / ((before + after) / 2));
     report(
-      `    pair ${i + 1}: recompute after idle, then scan after ANALYZE`,
+      `    pair ${i + 1}: scan, recompute after idle, scan (after ANALYZE)`,
       recompute,
-      `ms / ${median(scan).toFixed(1)} ms`,
+      `ms / ${before.toFixed(1)} and ${after.toFixed(1)} ms`,
     );
   }
   const pairedRatio = median(pairRatios);
-  report("(a) recompute ÷ scan after ANALYZE, paired: median of 4", pairedRatio, "×");
-  report("(a) recompute ÷ scan after ANALYZE, paired: highest of 4", Math.max(...pairRatios), "×");
+  report("(a) recompute ÷ scan after ANALYZE, paired: median of 8", pairedRatio, "×");
+  report("(a) recompute ÷ scan after ANALYZE, paired: highest of 8", Math.max(...pairRatios), "×");
 
   const largeMedian = await measureAccepts({ label: "1,000,000 counts", accepts: 100 });
   const http = await measureHttp();

@@ -309,32 +309,10 @@ export function estimateNetworkKFromColumns({
   ...options
 }: { columns: NetworkColumns; pilotId: string } & NetworkKOptions): NetworkKResult {
   const { observerIds, observer, day, raw, length } = columns;
-  // Days are whole numbers already (Int32Array): checking the earliest and
-  // the latest checks them all.
-  let firstDay = Number.POSITIVE_INFINITY;
-  let lastDay = Number.NEGATIVE_INFINITY;
-  for (let j = 0; j < length; j++) {
-    const value = raw[j] as number;
-    const index = observer[j] as number;
-    if (!(value >= 0 && value < Number.POSITIVE_INFINITY)) {
-      throw new RangeError(
-        `estimateNetworkK: raw must be finite and >= 0, got ${value} for ${observerIds[index]}`,
-      );
-    }
-    if (!(index >= 0 && index < observerIds.length)) {
-      throw new RangeError(`estimateNetworkK: observer index ${index} is out of range`);
-    }
-    const dayNumber = day[j] as number;
-    if (dayNumber < firstDay) firstDay = dayNumber;
-    if (dayNumber > lastDay) lastDay = dayNumber;
-  }
-  if (length > 0) {
-    toDayNumber(firstDay);
-    toDayNumber(lastDay);
-  }
   const observerIndex = new Map(observerIds.map((id, i) => [id, i]));
   if (observerIndex.size !== observerIds.length)
     throw new RangeError("estimateNetworkK: observer ids repeat");
+  // layoutColumns checks every count's raw value, observer and day.
   const layout = layoutColumns({
     observerIds: [...observerIds],
     observerIndex,
@@ -423,6 +401,8 @@ function fitNetwork({
     layout,
     k,
     inNetwork,
+    dayCount,
+    positiveCount,
     statuses,
     pilot,
     pilotK,
@@ -634,13 +614,34 @@ function layoutColumns({
   raws: Float64Array;
 }): Layout {
   const count = observerOf.length;
-  const daySlots = assignDaySlots(dayNumbers, lendInt32("layout:day-slots", dayNumbers.length));
   const observerCount = observerIds.length;
   const offsets = new Int32Array(observerCount + 1);
+  // Checked as they are counted, in the pass that counts each observer's
+  // counts: raw values finite and >= 0, observers in range, and (days being
+  // whole numbers already) the earliest and latest day valid.
+  let firstDay = Number.POSITIVE_INFINITY;
+  let lastDay = Number.NEGATIVE_INFINITY;
   for (let j = 0; j < count; j++) {
-    const next = (observerOf[j] as number) + 1;
-    offsets[next] = (offsets[next] as number) + 1;
+    const index = observerOf[j] as number;
+    const value = rawOf[j] as number;
+    if (!(value >= 0 && value < Number.POSITIVE_INFINITY)) {
+      throw new RangeError(
+        `estimateNetworkK: raw must be finite and >= 0, got ${value} for ${observerIds[index]}`,
+      );
+    }
+    if (!(index >= 0 && index < observerCount)) {
+      throw new RangeError(`estimateNetworkK: observer index ${index} is out of range`);
+    }
+    const dayNumber = dayNumbers[j] as number;
+    if (dayNumber < firstDay) firstDay = dayNumber;
+    if (dayNumber > lastDay) lastDay = dayNumber;
+    offsets[index + 1] = (offsets[index + 1] as number) + 1;
   }
+  if (count > 0) {
+    toDayNumber(firstDay);
+    toDayNumber(lastDay);
+  }
+  const daySlots = assignDaySlots(dayNumbers, lendInt32("layout:day-slots", dayNumbers.length));
   let maxObservationsPerObserver = 0;
   for (let i = 0; i < observerCount; i++) {
     maxObservationsPerObserver = Math.max(maxObservationsPerObserver, offsets[i + 1] as number);
@@ -774,6 +775,8 @@ function summariseNetwork({
   layout,
   k,
   inNetwork,
+  dayCount,
+  positiveCount,
   statuses,
   pilot,
   pilotK,
@@ -787,6 +790,9 @@ function summariseNetwork({
   layout: Layout;
   k: Float64Array;
   inNetwork: Uint8Array;
+  /** Per slot, the network's counts and those with spots (as fitNetwork counted them). */
+  dayCount: Float64Array;
+  positiveCount: Float64Array;
   statuses: NetworkKStatus[];
   pilot: number;
   pilotK: number;
@@ -799,15 +805,12 @@ function summariseNetwork({
 }): NetworkKResult {
   const { observerIds, observerCount, offsets, slots, raws, slotCount } = layout;
   const daySum = new Float64Array(slotCount);
-  const dayCount = new Float64Array(slotCount);
-  const positiveCount = new Float64Array(slotCount);
   for (let i = 0; i < observerCount; i++) {
     if (inNetwork[i] !== 1) continue;
+    const ki = k[i] as number;
     for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++) {
       const slot = slots[j] as number;
-      daySum[slot] = (daySum[slot] as number) + (k[i] as number) * (raws[j] as number);
-      dayCount[slot] = (dayCount[slot] as number) + 1;
-      if ((raws[j] as number) > 0) positiveCount[slot] = (positiveCount[slot] as number) + 1;
+      daySum[slot] = (daySum[slot] as number) + ki * (raws[j] as number);
     }
   }
 

@@ -58,8 +58,17 @@ export type PeriodKResult = {
   unfitted: boolean;
 };
 
-/** Per-unit daily raw counts of one period, with repeated counts of a unit on one day averaged. */
-type PeriodPairs = { unit: Int32Array; dayNumber: Int32Array; raw: Float64Array; length: number };
+/**
+ * Per-unit daily raw counts of one period, with repeated counts of a unit on
+ * one day averaged; `daysOfUnit[unit]` is how many days the unit counted.
+ */
+type PeriodPairs = {
+  unit: Int32Array;
+  dayNumber: Int32Array;
+  raw: Float64Array;
+  length: number;
+  daysOfUnit: Int32Array;
+};
 
 function collectPeriodCounts({
   counts,
@@ -79,6 +88,7 @@ function collectPeriodCounts({
     dayNumber: lendInt32("period-counts:day", size),
     raw: lendFloat64("period-counts:raw", size),
     length: 0,
+    daysOfUnit: new Int32Array(unitCount),
   };
   const lastDay = new Int32Array(unitCount).fill(-2_000_000_000);
   const position = new Int32Array(unitCount);
@@ -97,6 +107,7 @@ function collectPeriodCounts({
     const at = pairs.length++;
     lastDay[unit] = day;
     position[unit] = at;
+    pairs.daysOfUnit[unit] = (pairs.daysOfUnit[unit] as number) + 1;
     repeats[at] = 1;
     pairs.unit[at] = unit;
     pairs.dayNumber[at] = day;
@@ -149,11 +160,7 @@ export function fitPeriodK({
   }
 
   const keys = units.map((_, i) => String(i));
-  const observationsOfUnit = new Int32Array(units.length);
-  for (let j = 0; j < pairs.length; j++) {
-    const unit = pairs.unit[j] as number;
-    observationsOfUnit[unit] = (observationsOfUnit[unit] as number) + 1;
-  }
+  const observationsOfUnit = pairs.daysOfUnit;
   const columns = {
     observerIds: keys,
     observer: pairs.unit,

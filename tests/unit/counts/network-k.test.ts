@@ -458,7 +458,7 @@ describe("estimateNetworkKFromColumns", () => {
     }
   });
 
-  it("refuses negative counts and unknown observer indexes", () => {
+  it("refuses negative or non-numeric counts, unknown observer indexes and impossible days", () => {
     const base = { observerIds: ["a", "b"], day: Int32Array.of(1, 1), length: 2 };
     expect(() =>
       estimateNetworkKFromColumns({
@@ -472,5 +472,23 @@ describe("estimateNetworkKFromColumns", () => {
         pilotId: "a",
       }),
     ).toThrow(/out of range/);
+    expect(() =>
+      estimateNetworkKFromColumns({
+        columns: { ...base, observer: Int32Array.of(0, 1), raw: Float64Array.of(20, Number.NaN) },
+        pilotId: "a",
+      }),
+    ).toThrow(/finite/);
+    // A day far outside any calendar the product accepts.
+    expect(() =>
+      estimateNetworkKFromColumns({
+        columns: {
+          ...base,
+          day: Int32Array.of(1, 2_000_000_000),
+          observer: Int32Array.of(0, 1),
+          raw: Float64Array.of(20, 30),
+        },
+        pilotId: "a",
+      }),
+    ).toThrow(RangeError);
   });
 });

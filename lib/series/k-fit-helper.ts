@@ -62,10 +62,17 @@ export type HelperWritePart = {
   write: { file: string; steps: WriteStep[]; end: "more" | "commit" | "abort" };
 };
 
+/** Answered once the helper has done everything sent before it (whenHelperIdle). */
+export type HelperIdleQuestion = { id: number; idle: true };
+
+/** The helper's last checkpoint: pages in the log, and how many of them reached the database file. */
+export type HelperCheckpoint = { busy: boolean; logPages: number; checkpointedPages: number };
+
 export type KFitReply =
   | { ready: true }
   | { id: number; results: Fitted }
   | { id: number; written: true }
+  | { id: number; idle: true; lastCheckpoint: HelperCheckpoint | null }
   | { id: number; error: string };
 type Pending = { resolve: (value: unknown) => void; reject: (error: Error) => void };
 type Helper = {
@@ -115,7 +122,10 @@ function startHelper(helper: Helper): void {
       const pending = helper.pending.get(reply.id);
       helper.pending.delete(reply.id);
       if ("error" in reply) pending?.reject(new Error(reply.error));
-      else pending?.resolve("results" in reply ? reply.results : undefined);
+      else
+        pending?.resolve(
+          "results" in reply ? reply.results : "idle" in reply ? reply.lastCheckpoint : undefined,
+        );
     });
     worker.on("error", (error) => stopHelper(helper, error));
     worker.on("exit", (code) =>
@@ -196,6 +206,27 @@ export function startHelperWrite({ file }: { file: string }): HelperWrite | null
         post(steps, end);
       }),
   };
+}
+
+/**
+ * Resolves once the helper has done everything sent to it so far, the
+ * checkpoint after its last write included (lib/series/k-fit-worker.ts),
+ * with what that checkpoint did; at once (and null) when it is not
+ * running. For measurements that must not overlap that work.
+ */
+export function whenHelperIdle(): Promise<{ lastCheckpoint: HelperCheckpoint | null }> {
+  const helper = getHelper();
+  const worker = helper.worker;
+  if (!helper.ready || !worker) return Promise.resolve({ lastCheckpoint: null });
+  const id = helper.nextId++;
+  return new Promise((resolve) => {
+    helper.pending.set(id, {
+      resolve: (lastCheckpoint) => resolve({ lastCheckpoint: lastCheckpoint as HelperCheckpoint | null }),
+      reject: () => resolve({ lastCheckpoint: null }),
+    });
+    worker.ref();
+    worker.postMessage({ id, idle: true } satisfies HelperIdleQuestion);
+  });
 }
 
 /** fitPeriodK for one period of `counts`, with everything but the period and the anchors fixed; both threads use it. */

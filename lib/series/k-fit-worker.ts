@@ -12,7 +12,14 @@ import Libsql from "libsql";
 import { runStep, type Connection } from "@/db/sync-write";
 
 import type { PeriodKResult } from "./k-fit";
-import { makePeriodFitter, type HelperWritePart, type KFitJob, type KFitReply } from "./k-fit-helper";
+import {
+  makePeriodFitter,
+  type HelperCheckpoint,
+  type HelperIdleQuestion,
+  type HelperWritePart,
+  type KFitJob,
+  type KFitReply,
+} from "./k-fit-helper";
 
 const port = parentPort;
 if (!port) throw new Error("lib/series/k-fit-worker.ts runs only as a worker thread");
@@ -30,6 +37,8 @@ function connect(file: string): Connection {
     connection = new Libsql(file, { timeout: 5_000 });
     // As on the server's own connection (db/client.ts).
     connection.exec("PRAGMA synchronous = NORMAL");
+    // This thread checkpoints after answering instead (checkpointAfter).
+    connection.exec("PRAGMA wal_autocheckpoint = 0");
     connections.set(file, connection);
   }
   return connection;
@@ -82,10 +91,37 @@ function writePart({ id, write }: HelperWritePart): KFitReply | null {
   return write.end === "abort" ? { id, written: true } : { id, error: current.error ?? "Not written" };
 }
 
-port.on("message", (message: KFitJob | HelperWritePart) => {
+/** What the last checkpoint did (whenHelperIdle reports it). */
+let lastCheckpoint: HelperCheckpoint | null = null;
+
+/**
+ * After a committed write, copies the write-ahead log into the database
+ * file (a passive checkpoint: readers and writers go on meanwhile). SQLite
+ * does this itself at the commit that takes the log past 1,000 pages, which
+ * every full recompute does (about 1,000 pages), and the server's thread
+ * would then wait for it (7–10 ms) before the recompute is done. Here it
+ * runs once the server's thread has the answer. Messages are taken in
+ * order, so the next job starts after it (whenHelperIdle waits for it).
+ */
+function checkpointAfter(file: string): void {
+  try {
+    const row = connect(file).prepare("PRAGMA wal_checkpoint(PASSIVE)").raw().get() as number[];
+    lastCheckpoint = { busy: row[0] === 1, logPages: Number(row[1]), checkpointedPages: Number(row[2]) };
+  } catch (error) {
+    // A checkpoint that cannot run now runs after a later write.
+    console.warn(`Checkpoint after a helper write failed: ${messageOf(error)}`);
+  }
+}
+
+port.on("message", (message: KFitJob | HelperWritePart | HelperIdleQuestion) => {
+  if ("idle" in message) {
+    port.postMessage({ id: message.id, idle: true, lastCheckpoint } satisfies KFitReply);
+    return;
+  }
   if ("write" in message) {
     const reply = writePart(message);
     if (reply) port.postMessage(reply);
+    if (reply && "written" in reply && message.write.end === "commit") checkpointAfter(message.write.file);
     return;
   }
   const job = message;

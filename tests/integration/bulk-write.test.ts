@@ -8,7 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
 import { writeAllOrNothing, type WriteStep } from "@/db/bulk-write";
 import { embeddedFileOf, getDb, openDatabase, type Database } from "@/db/client";
-import { startHelperWrite, whenKFitHelperReady } from "@/lib/series/k-fit-helper";
+import { startHelperWrite, whenHelperIdle, whenKFitHelperReady } from "@/lib/series/k-fit-helper";
 
 const TABLE = "CREATE TABLE bulk_test (n INTEGER PRIMARY KEY, label TEXT NOT NULL, value REAL)";
 let memory: Database;
@@ -228,6 +228,10 @@ describe("a write made on the helper thread (startHelperWrite)", () => {
     ]);
     expect((await labels()).length).toBe(1_000);
     expect((await labels())[999]).toBe("row 999");
+    // Once answered, the helper copies the log into the database file.
+    const { lastCheckpoint } = await whenHelperIdle();
+    expect(lastCheckpoint?.logPages).toBeGreaterThan(0);
+    expect(lastCheckpoint?.checkpointedPages).toBe(lastCheckpoint?.logPages);
   });
 
   it("stores nothing when a part fails, says why, and takes the next write", async () => {

@@ -500,11 +500,7 @@ function prepareRatioOfSumsStep({
   // Compacted once: the network's counts with spots (the only ones adding
   // to a day's sum), and each observer's usable days.
   let positives = 0;
-  for (let i = 0; i < observerCount; i++) {
-    if (inNetwork[i] !== 1) continue;
-    for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++)
-      if ((raws[j] as number) > 0) positives++;
-  }
+  for (let slot = 0; slot < slotCount; slot++) positives += positiveCount[slot] as number;
   // Lent (./scratch.ts): only the positions written below are read.
   const positiveSlots = lendInt32("ratio-of-sums:positive-slots", positives);
   const positiveRaws = lendFloat64("ratio-of-sums:positive-raws", positives);
@@ -701,28 +697,32 @@ function selectNetworkObservers({
   const { observerCount, offsets, slots, raws, slotCount } = layout;
   const chosen = new Uint8Array(observerCount).fill(1);
   const positiveCount = new Int32Array(slotCount);
-  for (;;) {
-    positiveCount.fill(0);
-    for (let i = 0; i < observerCount; i++) {
-      if (chosen[i] !== 1) continue;
-      for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++) {
-        const slot = slots[j] as number;
-        if ((raws[j] as number) > 0) positiveCount[slot] = (positiveCount[slot] as number) + 1;
-      }
+  for (let i = 0; i < observerCount; i++) {
+    for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++) {
+      const slot = slots[j] as number;
+      if ((raws[j] as number) > 0) positiveCount[slot] = (positiveCount[slot] as number) + 1;
     }
-    let dropped = 0;
+  }
+  const dropped: number[] = [];
+  for (;;) {
+    dropped.length = 0;
     for (let i = 0; i < observerCount; i++) {
       if (chosen[i] !== 1) continue;
       let common = 0;
       for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++) {
         if ((raws[j] as number) > 0 && (positiveCount[slots[j] as number] as number) >= 2) common++;
       }
-      if (!hasEnoughCommonDays({ n: common, minCommonDays })) {
-        chosen[i] = 0;
-        dropped++;
+      if (!hasEnoughCommonDays({ n: common, minCommonDays })) dropped.push(i);
+    }
+    if (dropped.length === 0) return chosen;
+    // The next round counts without them: take their days with spots off.
+    for (const i of dropped) {
+      chosen[i] = 0;
+      for (let j = offsets[i] as number; j < (offsets[i + 1] as number); j++) {
+        const slot = slots[j] as number;
+        if ((raws[j] as number) > 0) positiveCount[slot] = (positiveCount[slot] as number) - 1;
       }
     }
-    if (dropped === 0) return chosen;
   }
 }
 

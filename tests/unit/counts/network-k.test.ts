@@ -316,6 +316,33 @@ describe("estimateNetworkK membership and input handling", () => {
     }
   });
 
+  it("drops, round after round, observers left short of common days by the ones dropped before", () => {
+    // With a minimum of 5: P and A share ten days. B shares 1 day with them
+    // and 3 with C: 4, dropped at once. C shares 2 days with P and A and 3
+    // with B: 5 at first, but 2 once B is out, so C goes in the next round.
+    const counts: NetworkObservation[] = [];
+    const add = (observerId: string, days: number[], raw: number) => {
+      for (const day of days) counts.push({ observerId, day: 20_000 + day, raw: raw + (day % 3) });
+    };
+    const tenDays = [1, 2, 3, 4, 5, 6, 7, 8, 9, 10];
+    add("P", tenDays, 40);
+    add("A", tenDays, 30);
+    add("D", tenDays, 50);
+    const core = [...counts];
+    add("B", [1, 20, 21, 22], 25);
+    add("C", [5, 6, 20, 21, 22], 35);
+    const result = estimateNetworkK({ observations: counts, pilotId: "P", minCommonDays: 5 });
+    expect(result.converged).toBe(true);
+    expect(result.byObserver.get("P")?.status).toBe("pilot");
+    expect(result.byObserver.get("A")?.status).toBe("network");
+    expect(result.byObserver.get("B")?.status).toBe("below-minimum");
+    expect(result.byObserver.get("C")?.status).toBe("below-minimum");
+    // Neither shaped the index: the network's k are those of P, A and D alone.
+    const alone = estimateNetworkK({ observations: core, pilotId: "P", minCommonDays: 5 });
+    for (const observerId of ["P", "A", "D"])
+      expect(result.byObserver.get(observerId)?.k).toBe(alone.byObserver.get(observerId)?.k);
+  });
+
   it("marks observers with no chain of common days to the pilot as unlinked (k = null)", () => {
     // Two observers who only ever observe together, long after the others.
     const island: NetworkObservation[] = [];

@@ -6,7 +6,12 @@ import { formatDayNumber } from "@/lib/counts/series";
 import { makeOrderedIdMaker } from "@/lib/ids/ordered-ids";
 import { countsFromPacks, sliceByKey, type AcceptedCounts } from "@/lib/series/accepted-counts";
 import { packsFromPackedText, type CountPack } from "@/lib/series/count-packs";
-import { fitAllPeriods, startHelperWrite, type KFitReference } from "@/lib/series/k-fit-helper";
+import {
+  fitAllPeriods,
+  isKFitHelperRunning,
+  startHelperWrite,
+  type KFitReference,
+} from "@/lib/series/k-fit-helper";
 import { buildKLookup, buildStoredKResolver, type KFit, type KUnit } from "@/lib/series/k-fit";
 import {
   dailyColumnsOf,
@@ -441,29 +446,49 @@ function kCoefficientRows({
  * requests a turn until it has called commit (see startHelperWrite). Else
  * the parts are collected and written on this thread by commit, in one
  * synchronous write (writeAllOrNothing, db/bulk-write.ts).
+ *
+ * If the helper thread stops during its write (its transaction goes with
+ * it), commit writes every part again on this thread; it then resolves to
+ * "server". A write the helper refused (a constraint, say) is not tried
+ * again: it would fail the same way.
  */
-function openResultWriter({ threads }: { threads: 1 | 2 }): {
+export function openResultWriter({ threads }: { threads: 1 | 2 }): {
   streaming: boolean;
   add: (steps: WriteStep[]) => void;
-  commit: (last: WriteStep[]) => Promise<void>;
+  commit: (last: WriteStep[]) => Promise<"helper" | "server">;
   abort: () => Promise<void>;
 } {
   const db = getDb();
   const file = embeddedFileOf(db);
   const helper = threads === 2 && file ? startHelperWrite({ file }) : null;
+  const steps: WriteStep[] = [];
   if (helper) {
     return {
       streaming: true,
-      add: (steps) => helper.send(steps),
-      commit: (last) => helper.finish("commit", last),
+      add: (more) => {
+        steps.push(...more);
+        helper.send(more);
+      },
+      commit: async (last) => {
+        try {
+          await helper.finish("commit", last);
+          return "helper";
+        } catch (error) {
+          if (isKFitHelperRunning()) throw error;
+          await writeAllOrNothing(db, [...steps, ...last]);
+          return "server";
+        }
+      },
       abort: () => helper.finish("abort").catch(() => undefined),
     };
   }
-  const steps: WriteStep[] = [];
   return {
     streaming: false,
     add: (more) => void steps.push(...more),
-    commit: (last) => writeAllOrNothing(db, [...steps, ...last]),
+    commit: async (last) => {
+      await writeAllOrNothing(db, [...steps, ...last]);
+      return "server";
+    },
     abort: async () => undefined,
   };
 }
@@ -529,6 +554,7 @@ export async function runFullRecompute({
     await onProgress(0.78, "Building and writing the daily, monthly and yearly series");
     const writer = openResultWriter({ threads });
     let series: ReturnType<typeof seriesFromDailyColumns>;
+    let writtenOn: RecomputeSummary["writtenOn"];
     let days = 0;
     let kCoefficients = 0;
     try {
@@ -567,7 +593,7 @@ export async function runFullRecompute({
         await yieldToServer();
         await onProgress(0.88, "Writing the new series");
       }
-      await writer.commit([
+      writtenOn = await writer.commit([
         {
           table: "series_monthly",
           columns: ["month", "hemisphere", "days", "sum_of_daily_means", "mean", "smoothed"],
@@ -592,6 +618,10 @@ export async function runFullRecompute({
       await writer.abort();
       throw error;
     }
+    if (writer.streaming && writtenOn === "server")
+      notes.push(
+        "The helper thread stopped during the write; the result was written on the server's thread.",
+      );
     // Kept only once their packs are stored, so what is kept is also on disk.
     await keepCounts({ client, read: loaded, kept: { counts, countOfUnit, units, observerOfUnit } });
     lap("write");
@@ -612,7 +642,7 @@ export async function runFullRecompute({
       periods: fitted.periods,
       kCoefficients,
       countsReused: loaded.reused,
-      writtenOn: writer.streaming ? "helper" : "server",
+      writtenOn,
       days,
       months: series.monthly.filter((m) => m.hemisphere === "all").length,
       notes,

@@ -148,6 +148,21 @@ function stopHelper(helper: Helper, error: Error): void {
   console.warn(`k coefficients are fitted on one thread: ${error.message}`);
 }
 
+/** True while the helper thread is up and taking work. */
+export function isKFitHelperRunning(): boolean {
+  const helper = getHelper();
+  return helper.ready && helper.worker !== null;
+}
+
+/**
+ * Stops the helper thread for good: work it holds fails, and everything is
+ * done on the server's thread from then on. For a server shutting down, and
+ * for tests of what happens when the helper goes.
+ */
+export function stopKFitHelper(reason: string): void {
+  stopHelper(getHelper(), new Error(reason));
+}
+
 /** Starts the helper if it is not running and resolves once it can take work (false if it cannot). */
 export function whenKFitHelperReady(): Promise<boolean> {
   const helper = getHelper();

@@ -8,7 +8,14 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
 import { writeAllOrNothing, type WriteStep } from "@/db/bulk-write";
 import { embeddedFileOf, getDb, openDatabase, type Database } from "@/db/client";
-import { startHelperWrite, whenHelperIdle, whenKFitHelperReady } from "@/lib/series/k-fit-helper";
+import { openResultWriter } from "@/db/queries/recompute";
+import {
+  isKFitHelperRunning,
+  startHelperWrite,
+  stopKFitHelper,
+  whenHelperIdle,
+  whenKFitHelperReady,
+} from "@/lib/series/k-fit-helper";
 
 const TABLE = "CREATE TABLE bulk_test (n INTEGER PRIMARY KEY, label TEXT NOT NULL, value REAL)";
 let memory: Database;
@@ -256,5 +263,25 @@ describe("a write made on the helper thread (startHelperWrite)", () => {
     expect((await labels()).length).toBe(10);
     await writeAllOrNothing(db(), [{ sql: "DELETE FROM bulk_test WHERE n >= 5" }]);
     expect((await labels()).length).toBe(5);
+  });
+
+  // Last: the helper does not come back in this process.
+  it("writes the recompute's result on this thread when the helper stops during its write", async () => {
+    expect(await whenKFitHelperReady()).toBe(true);
+    const writer = openResultWriter({ threads: 2 });
+    expect(writer.streaming).toBe(true);
+    writer.add([{ sql: "DELETE FROM bulk_test" }]);
+    writer.add([{ table: "bulk_test", columns: ["n", "label", "value"], rows: rowsOf(700) }]);
+    // The helper has run both parts: its transaction holds the write lock.
+    await whenHelperIdle();
+    stopKFitHelper("Stopped by the test");
+    expect(isKFitHelperRunning()).toBe(false);
+    const writtenOn = await writer.commit([
+      { table: "bulk_test", columns: ["n", "label", "value"], rows: rowsOf(300, 700) },
+    ]);
+    expect(writtenOn).toBe("server");
+    expect(await labels()).toEqual(rowsOf(1_000).map((r) => r[1]));
+    // From now on everything is written here.
+    expect(openResultWriter({ threads: 2 }).streaming).toBe(false);
   });
 });

@@ -155,9 +155,9 @@ export function isKFitHelperRunning(): boolean {
 }
 
 /**
- * Stops the helper thread for good: work it holds fails, and everything is
- * done on the server's thread from then on. For a server shutting down, and
- * for tests of what happens when the helper goes.
+ * Stops the helper thread for good, as if it had died: work it holds fails,
+ * and everything is done on the server's thread from then on. Tests use it
+ * to see what the recompute does when the helper goes.
  */
 export function stopKFitHelper(reason: string): void {
   stopHelper(getHelper(), new Error(reason));

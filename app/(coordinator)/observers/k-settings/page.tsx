@@ -6,6 +6,7 @@ import { findLatestJob } from "@/db/queries/jobs";
 import { describeStoredK, getKSettings, listObserverChoices } from "@/db/queries/k";
 import { RECOMPUTE_JOB_KIND } from "@/db/queries/recompute";
 import { listReferenceSeries } from "@/db/queries/reference-series";
+import { whenKFitHelperReady } from "@/lib/series/k-fit-helper";
 
 import { KSettingsForm } from "./_components/k-settings-form";
 import { RecomputePanel } from "./_components/recompute-panel";
@@ -14,6 +15,10 @@ import { ReferenceImportForm } from "./_components/reference-import-form";
 export const metadata: Metadata = { title: "k settings and recompute" };
 
 export default async function KSettingsPage() {
+  // A coordinator here is likely to recompute: start the helper thread now
+  // (it takes a few seconds), so even the first recompute after the server
+  // starts fits k on two threads and writes as it goes. Not waited for.
+  void whenKFitHelperReady();
   const [settings, observers, references, latestJob, storedK] = await Promise.all([
     getKSettings(),
     listObserverChoices(),

@@ -1,6 +1,6 @@
 import "server-only";
 
-import { inWriteTransaction, ownConnection, type Database } from "./client";
+import { inWriteTransaction, ownConnection, whenWritesOpen, type Database } from "./client";
 import { insertRows } from "./queries/series";
 import { rowCountOfStep, rowOfStep, runStepsAllOrNothing, type WriteStep } from "./sync-write";
 
@@ -30,6 +30,8 @@ export async function writeAllOrNothing(db: Database, steps: readonly WriteStep[
     await writeThroughClient(db, steps);
     return;
   }
+  // Not while the helper thread writes a recompute (holdWrites, db/client.ts).
+  await whenWritesOpen();
   runStepsAllOrNothing(connection, steps);
 }
 

@@ -3,7 +3,15 @@ import "server-only";
 import { mkdirSync } from "node:fs";
 import path from "node:path";
 
-import { createClient, type Client, type InValue, type Transaction } from "@libsql/client";
+import {
+  createClient,
+  type Client,
+  type InStatement,
+  type InValue,
+  type ResultSet,
+  type Transaction,
+  type TransactionMode,
+} from "@libsql/client";
 import { drizzle, type LibSQLDatabase } from "drizzle-orm/libsql";
 import Libsql from "libsql";
 
@@ -75,6 +83,85 @@ function attachLookups({ client, file }: { client: Client; file: string }): void
     own.open = null;
     close();
   };
+  gateWrites(client);
+}
+
+// ---------------------------------------------------------------------------
+// The write gate. On an embedded database a statement waits for another
+// connection's write lock synchronously, on the thread that runs it. While
+// the k-fit helper thread writes a full recompute's result, this thread
+// still sends it the parts: a write here would stop this thread until the
+// busy timeout, and with it the parts the helper waits for. So while a
+// write is held (holdWrites), every write through the client, and every
+// writeAllOrNothing, first waits, without blocking, until it is let go;
+// reads go on (the log lets them read the last committed state), and other
+// requests get their turns during the recompute.
+// ---------------------------------------------------------------------------
+
+let writesHeld: { released: Promise<void>; release: () => void } | null = null;
+
+/**
+ * Makes writes through the client wait until the returned function is
+ * called (once is enough; more calls do nothing). One hold at a time: a
+ * second waits for the first.
+ */
+export async function holdWrites(): Promise<() => void> {
+  await whenWritesOpen();
+  let release!: () => void;
+  const released = new Promise<void>((resolve) => (release = resolve));
+  const hold = { released, release: () => undefined };
+  hold.release = () => {
+    if (writesHeld === hold) writesHeld = null;
+    release();
+  };
+  writesHeld = hold;
+  return hold.release;
+}
+
+/** Resolves once no write is held (at once when none is). */
+export async function whenWritesOpen(): Promise<void> {
+  while (writesHeld) await writesHeld.released;
+}
+
+/** Statements that only read: they need no gate. */
+const READ_ONLY_SQL = /^\s*(select|explain)\b/i;
+
+function isReadOnly(statement: InStatement): boolean {
+  const sql = typeof statement === "string" ? statement : statement.sql;
+  return READ_ONLY_SQL.test(sql);
+}
+
+/** Routes the client's writes through the gate (see holdWrites). */
+function gateWrites(client: Client): void {
+  const execute = client.execute.bind(client) as (statement: InStatement) => Promise<ResultSet>;
+  const batch = client.batch.bind(client);
+  const transaction = client.transaction.bind(client);
+  const executeMultiple = client.executeMultiple.bind(client);
+  const migrate = client.migrate.bind(client);
+  // Overloads cannot be restated one by one here; the calls pass through unchanged.
+  Object.assign(client, {
+    execute: async (statement: InStatement) => {
+      if (writesHeld && !isReadOnly(statement)) await whenWritesOpen();
+      return execute(statement);
+    },
+    batch: async (statements: InStatement[], mode?: TransactionMode) => {
+      // "write" takes the write lock at BEGIN, whatever the statements.
+      if (writesHeld && (mode === "write" || !statements.every(isReadOnly))) await whenWritesOpen();
+      return batch(statements, mode);
+    },
+    transaction: async (mode?: TransactionMode) => {
+      if (writesHeld && mode !== "read") await whenWritesOpen();
+      return transaction(mode);
+    },
+    executeMultiple: async (sql: string) => {
+      await whenWritesOpen();
+      return executeMultiple(sql);
+    },
+    migrate: async (statements: InStatement[]) => {
+      await whenWritesOpen();
+      return migrate(statements);
+    },
+  });
 }
 
 /** Runs `work` in one write transaction of the client: committed if it returns, rolled back if it throws. */

@@ -26,7 +26,7 @@ import { NETWORK_REFERENCE, type KSettings } from "@/lib/validation/k-settings";
 
 import { writeAllOrNothing, type WriteStep } from "../bulk-write";
 import type { ColumnarRows } from "../sync-write";
-import { embeddedFileOf, getDb } from "../client";
+import { embeddedFileOf, getDb, holdWrites } from "../client";
 import { countPackWrites, readTrustedPacks } from "./count-packs";
 import { createJob, findActiveJob, finishJob, markJobRunning, reportJobProgress, type JobView } from "./jobs";
 import { flagAwaitingReview } from "./review-flags";
@@ -442,45 +442,56 @@ function kCoefficientRows({
  * soon as it is made (startHelperWrite, lib/series/k-fit-helper.ts): the
  * helper writes the k values and the first years of the daily series while
  * this thread makes the rest, and this thread is never held up by the
- * writing. `streaming` is then true, and the caller must not give other
- * requests a turn until it has called commit (see startHelperWrite). Else
- * the parts are collected and written on this thread by commit, in one
- * synchronous write (writeAllOrNothing, db/bulk-write.ts).
+ * writing. `streaming` is then true, and this process's other writes wait
+ * (holdWrites, db/client.ts) until commit or abort has settled, so other
+ * requests may take their turns meanwhile; the caller itself must not
+ * write. Else the parts are collected and written on this thread by
+ * commit, in one synchronous write (writeAllOrNothing, db/bulk-write.ts).
  *
  * If the helper thread stops during its write (its transaction goes with
  * it), commit writes every part again on this thread; it then resolves to
  * "server". A write the helper refused (a constraint, say) is not tried
  * again: it would fail the same way.
  */
-export function openResultWriter({ threads }: { threads: 1 | 2 }): {
+export async function openResultWriter({ threads }: { threads: 1 | 2 }): Promise<{
   streaming: boolean;
   add: (steps: WriteStep[]) => void;
   commit: (last: WriteStep[]) => Promise<"helper" | "server">;
   abort: () => Promise<void>;
-} {
+}> {
   const db = getDb();
   const file = embeddedFileOf(db);
-  const helper = threads === 2 && file ? startHelperWrite({ file }) : null;
   const steps: WriteStep[] = [];
-  if (helper) {
-    return {
-      streaming: true,
-      add: (more) => {
-        steps.push(...more);
-        helper.send(more);
-      },
-      commit: async (last) => {
-        try {
-          await helper.finish("commit", last);
-          return "helper";
-        } catch (error) {
-          if (isKFitHelperRunning()) throw error;
-          await writeAllOrNothing(db, [...steps, ...last]);
-          return "server";
-        }
-      },
-      abort: () => helper.finish("abort").catch(() => undefined),
-    };
+  if (threads === 2 && file && isKFitHelperRunning()) {
+    const release = await holdWrites();
+    const helper = startHelperWrite({ file });
+    if (!helper) release();
+    else
+      return {
+        streaming: true,
+        add: (more) => {
+          steps.push(...more);
+          helper.send(more);
+        },
+        commit: async (last) => {
+          try {
+            await helper.finish("commit", last);
+            return "helper";
+          } catch (error) {
+            release();
+            if (isKFitHelperRunning()) throw error;
+            await writeAllOrNothing(db, [...steps, ...last]);
+            return "server";
+          } finally {
+            release();
+          }
+        },
+        abort: () =>
+          helper
+            .finish("abort")
+            .catch(() => undefined)
+            .finally(release),
+      };
   }
   return {
     streaming: false,
@@ -552,7 +563,7 @@ export async function runFullRecompute({
     // while this thread makes the rest (openResultWriter); without the
     // helper, it is written here at the end.
     await onProgress(0.78, "Building and writing the daily, monthly and yearly series");
-    const writer = openResultWriter({ threads });
+    const writer = await openResultWriter({ threads });
     let series: ReturnType<typeof seriesFromDailyColumns>;
     let writtenOn: RecomputeSummary["writtenOn"];
     let days = 0;
@@ -573,14 +584,14 @@ export async function runFullRecompute({
         writer.add([kRows]);
       }
       // The daily rows a few years at a time (about 50 ms in all on a
-      // million counts), each slice's rows written as soon as they are made;
-      // when written here at the end, other requests get a turn in between.
+      // million counts), each slice's rows written as soon as they are made,
+      // with a turn for other requests between slices.
       const slices: DailyColumns[] = [];
       for (const { from, to } of sliceByKey({
         counts,
         keyOf: (day) => Math.floor(day / DAYS_PER_SERIES_SLICE),
       })) {
-        if (!writer.streaming) await yieldToServer();
+        await yieldToServer();
         fitted.fillKOfRow(from, to);
         const columns = dailyColumnsOf({ counts, kOfRow: fitted.kOfRow, observerOfUnit, from, to });
         slices.push(columns);
@@ -589,6 +600,8 @@ export async function runFullRecompute({
       }
       series = seriesFromDailyColumns(slices);
       lap("series");
+      // While streaming, this process's writes wait for the commit
+      // (openResultWriter), progress reports included: none is sent.
       if (!writer.streaming) {
         await yieldToServer();
         await onProgress(0.88, "Writing the new series");

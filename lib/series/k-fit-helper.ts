@@ -197,9 +197,11 @@ export type HelperWrite = {
  *
  * The helper holds the database's write lock from its first part to its
  * last. Until the last part is sent, this thread must not wait on that lock
- * itself: no statement that writes, and no turn for other requests (one of
- * them could write). A synchronous wait for the lock here would stop the
- * very thread the helper waits for.
+ * itself: a synchronous wait for the lock here would stop the very thread
+ * the helper waits for. So the caller holds this process's writes
+ * (holdWrites, db/client.ts) from before the first part until the write
+ * has settled, and writes nothing itself meanwhile; other requests may
+ * then take their turns, their writes waiting without blocking.
  */
 export function startHelperWrite({ file }: { file: string }): HelperWrite | null {
   const helper = getHelper();

@@ -265,10 +265,36 @@ describe("a write made on the helper thread (startHelperWrite)", () => {
     expect((await labels()).length).toBe(5);
   });
 
+  it("lets this process read, and makes its writes wait, while the helper writes a recompute's result", async () => {
+    expect(await whenKFitHelperReady()).toBe(true);
+    const before = await labels();
+    const writer = await openResultWriter({ threads: 2 });
+    expect(writer.streaming).toBe(true);
+    writer.add([{ sql: "DELETE FROM bulk_test" }]);
+    writer.add([{ table: "bulk_test", columns: ["n", "label", "value"], rows: rowsOf(50) }]);
+    // The helper has run both parts: its transaction holds the write lock.
+    await whenHelperIdle();
+    const done: string[] = [];
+    const clientWrite = db()
+      .$client.execute({ sql: "INSERT INTO bulk_test (n, label) VALUES (?, ?)", args: [5_000, "waited"] })
+      .then(() => done.push("client"));
+    const bulkWrite = writeAllOrNothing(db(), [
+      { sql: "INSERT INTO bulk_test (n, label) VALUES (?, ?)", args: [5_001, "waited too"] },
+    ]).then(() => done.push("bulk"));
+    // This thread goes on (a write waiting for the lock here would stop it)…
+    await new Promise((resolve) => setTimeout(resolve, 50));
+    expect(done).toEqual([]);
+    // …and reads the last committed rows.
+    expect(await labels()).toEqual(before);
+    expect(await writer.commit([])).toBe("helper");
+    await Promise.all([clientWrite, bulkWrite]);
+    expect(await labels()).toEqual([...rowsOf(50).map((r) => r[1]), "waited", "waited too"]);
+  });
+
   // Last: the helper does not come back in this process.
   it("writes the recompute's result on this thread when the helper stops during its write", async () => {
     expect(await whenKFitHelperReady()).toBe(true);
-    const writer = openResultWriter({ threads: 2 });
+    const writer = await openResultWriter({ threads: 2 });
     expect(writer.streaming).toBe(true);
     writer.add([{ sql: "DELETE FROM bulk_test" }]);
     writer.add([{ table: "bulk_test", columns: ["n", "label", "value"], rows: rowsOf(700) }]);
@@ -282,6 +308,6 @@ describe("a write made on the helper thread (startHelperWrite)", () => {
     expect(writtenOn).toBe("server");
     expect(await labels()).toEqual(rowsOf(1_000).map((r) => r[1]));
     // From now on everything is written here.
-    expect(openResultWriter({ threads: 2 }).streaming).toBe(false);
+    expect((await openResultWriter({ threads: 2 })).streaming).toBe(false);
   });
 });

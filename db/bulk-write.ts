@@ -1,6 +1,6 @@
 import "server-only";
 
-import { inWriteTransaction, ownConnection, whenWritesOpen, type Database } from "./client";
+import { afterWritesOpen, inWriteTransaction, ownConnection, type Database } from "./client";
 import { insertRows } from "./queries/series";
 import { rowCountOfStep, rowOfStep, runStepsAllOrNothing, type WriteStep } from "./sync-write";
 
@@ -31,8 +31,7 @@ export async function writeAllOrNothing(db: Database, steps: readonly WriteStep[
     return;
   }
   // Not while the helper thread writes a recompute (holdWrites, db/client.ts).
-  await whenWritesOpen();
-  runStepsAllOrNothing(connection, steps);
+  await afterWritesOpen(() => runStepsAllOrNothing(connection, steps));
 }
 
 async function writeThroughClient(db: Database, steps: readonly WriteStep[]): Promise<void> {

@@ -105,22 +105,29 @@ let writesHeld: { released: Promise<void>; release: () => void } | null = null;
  * called (once is enough; more calls do nothing). One hold at a time: a
  * second waits for the first.
  */
-export async function holdWrites(): Promise<() => void> {
-  await whenWritesOpen();
-  let release!: () => void;
-  const released = new Promise<void>((resolve) => (release = resolve));
-  const hold = { released, release: () => undefined };
-  hold.release = () => {
-    if (writesHeld === hold) writesHeld = null;
-    release();
-  };
-  writesHeld = hold;
-  return hold.release;
+export function holdWrites(): Promise<() => void> {
+  return afterWritesOpen(() => {
+    let release!: () => void;
+    const released = new Promise<void>((resolve) => (release = resolve));
+    const hold = { released, release: () => undefined };
+    hold.release = () => {
+      if (writesHeld === hold) writesHeld = null;
+      release();
+    };
+    writesHeld = hold;
+    return hold.release;
+  });
 }
 
-/** Resolves once no write is held (at once when none is). */
-export async function whenWritesOpen(): Promise<void> {
+/**
+ * Runs `write` once no write is held. It is called in the same synchronous
+ * run as the last check, so nothing can take a hold in between (a write
+ * that started after a hold was taken could wait for the helper's lock on
+ * this thread); at once, without a turn, when nothing is held.
+ */
+export async function afterWritesOpen<T>(write: () => T | Promise<T>): Promise<T> {
   while (writesHeld) await writesHeld.released;
+  return write();
 }
 
 /** Statements that only read: they need no gate. */
@@ -140,27 +147,17 @@ function gateWrites(client: Client): void {
   const migrate = client.migrate.bind(client);
   // Overloads cannot be restated one by one here; the calls pass through unchanged.
   Object.assign(client, {
-    execute: async (statement: InStatement) => {
-      if (writesHeld && !isReadOnly(statement)) await whenWritesOpen();
-      return execute(statement);
-    },
-    batch: async (statements: InStatement[], mode?: TransactionMode) => {
-      // "write" takes the write lock at BEGIN, whatever the statements.
-      if (writesHeld && (mode === "write" || !statements.every(isReadOnly))) await whenWritesOpen();
-      return batch(statements, mode);
-    },
-    transaction: async (mode?: TransactionMode) => {
-      if (writesHeld && mode !== "read") await whenWritesOpen();
-      return transaction(mode);
-    },
-    executeMultiple: async (sql: string) => {
-      await whenWritesOpen();
-      return executeMultiple(sql);
-    },
-    migrate: async (statements: InStatement[]) => {
-      await whenWritesOpen();
-      return migrate(statements);
-    },
+    execute: (statement: InStatement) =>
+      isReadOnly(statement) ? execute(statement) : afterWritesOpen(() => execute(statement)),
+    // "write" takes the write lock at BEGIN, whatever the statements.
+    batch: (statements: InStatement[], mode?: TransactionMode) =>
+      mode !== "write" && statements.every(isReadOnly)
+        ? batch(statements, mode)
+        : afterWritesOpen(() => batch(statements, mode)),
+    transaction: (mode?: TransactionMode) =>
+      mode === "read" ? transaction(mode) : afterWritesOpen(() => transaction(mode)),
+    executeMultiple: (sql: string) => afterWritesOpen(() => executeMultiple(sql)),
+    migrate: (statements: InStatement[]) => afterWritesOpen(() => migrate(statements)),
   });
 }
 
